@@ -21,7 +21,7 @@ export async function freePort(): Promise<number> {
   });
 }
 
-export function runStep(command: string, args: string[], env: NodeJS.ProcessEnv = {}): Promise<void> {
+export function runStep(command: string, args: string[], env: Record<string, string> = {}): Promise<void> {
   return new Promise((resolve, reject) => {
     const child = spawn(command, args, {
       cwd: PROJECT_ROOT,
@@ -42,7 +42,7 @@ export interface RunningApp {
 }
 
 /** `next start` on loopback; resolves once /api/health answers 200. */
-export async function startBuiltApp(opts: { port: number; env: NodeJS.ProcessEnv; quiet?: boolean }): Promise<RunningApp> {
+export async function startBuiltApp(opts: { port: number; env: Record<string, string>; quiet?: boolean }): Promise<RunningApp> {
   const url = `http://localhost:${opts.port}`;
   const child = spawn(
     process.execPath,
@@ -50,7 +50,7 @@ export async function startBuiltApp(opts: { port: number; env: NodeJS.ProcessEnv
     {
       cwd: PROJECT_ROOT,
       stdio: opts.quiet ? ["ignore", "ignore", "inherit"] : "inherit",
-      env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1", NODE_ENV: "production", APP_URL: url, ...opts.env },
+      env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1", APP_URL: url, ...opts.env, NODE_ENV: "production" },
     },
   );
   const exited = new Promise<number | null>((resolve) => child.on("exit", (code) => resolve(code)));
