@@ -1,0 +1,175 @@
+/**
+ * Fast timestamp reading: ISO 8601 and common log forms → integer ms since the Unix epoch, UTC.
+ *
+ * Accepted: `yyyy-mm-dd` or `yyyy/mm/dd`, then `T` or spaces, then `hh:mm[:ss[.fff…]]`, then an
+ * optional offset `Z`, `UTC`, `GMT`, `±hh`, `±hh:mm`, `±hhmm`; the ISO basic form
+ * `yyyymmddThhmmss[.fff][Z|±hhmm]`; a date alone (midnight); or, with `defaultDate`, a time of day
+ * alone. Fractional seconds keep ms; finer digits are rounded half up to the ms.
+ *
+ * Order of operations for one logged time:
+ *   1. civil fields are checked (month 13, 30 February, 25:00 → TimestampError);
+ *   2. an offset written in the text wins; otherwise the fields are wall-clock time in `timeZone`
+ *      (default UTC; DST rule in ./zone.ts: overlap → earlier instant, gap → offset before the gap);
+ *   3. the per-log clock offset is added: corrected = logged + clockOffsetS (a clock running 2 s
+ *      slow needs clockOffsetS = +2);
+ *   4. a GPS-basis time is turned to UTC by subtracting GPS − UTC in force then (./leap-seconds.ts).
+ */
+import { assertCivilFields, daysFromCivil } from "./civil";
+import { gpsToUtcMs } from "./leap-seconds";
+import { TimestampError } from "./timestamp-error";
+import { createLocalToUtc, isKnownTimeZone, isUtcZone } from "./zone";
+
+export type TimeBasis = "utc" | "gps";
+
+export interface TimeReadOptions {
+  /** IANA zone for times written without an offset; default "UTC". */
+  timeZone?: string;
+  /** Time scale of the log's clock; default "utc". A GPS basis needs timeZone UTC. */
+  timeBasis?: TimeBasis;
+  /** Seconds ADDED to every logged time: corrected = logged + clockOffsetS. Default 0. */
+  clockOffsetS?: number;
+  /** `yyyy-mm-dd` used when the text holds a time of day only. */
+  defaultDate?: string;
+}
+
+export interface TimestampReader {
+  /** One timestamp text → UTC ms; throws TimestampError. */
+  parse(text: string): number;
+  /** Separate date and time columns → UTC ms; throws TimestampError. */
+  parseDateAndTime(dateText: string, timeText: string): number;
+}
+
+const MS_PER_MIN = 60_000;
+const MS_PER_DAY = 86_400_000;
+const EXTENDED_RE =
+  /^\s*(\d{4})[-/](\d{1,2})[-/](\d{1,2})(?:(?:T|t|\s+)(\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d+))?)?)?\s*(Z|z|UTC|GMT|[+-]\d{2}(?::?\d{2})?)?\s*$/;
+const BASIC_RE = /^\s*(\d{4})(\d{2})(\d{2})[Tt](\d{2})(\d{2})(\d{2})?(?:[.,](\d+))?\s*(Z|z|[+-]\d{2}(?:\d{2})?)?\s*$/;
+const TIME_ONLY_RE = /^\s*(\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d+))?)?\s*(Z|z|UTC|GMT|[+-]\d{2}(?::?\d{2})?)?\s*$/;
+const DATE_ONLY_RE = /^\s*(\d{4})[-/](\d{1,2})[-/](\d{1,2})\s*$/;
+
+/** Fraction digits → ms, rounded half up on the fourth digit. */
+function fractionToMs(frac: string | undefined): number {
+  if (!frac) return 0;
+  if (frac.length === 3) return +frac;
+  const four = +(frac.length >= 4 ? frac.slice(0, 4) : frac.padEnd(4, "0"));
+  return Math.floor(four / 10) + (four % 10 >= 5 ? 1 : 0);
+}
+
+/** Non-negative integer from `len` ASCII digits at `at`, or −1. */
+function digits(text: string, at: number, len: number): number {
+  let v = 0;
+  for (let i = at; i < at + len; i++) {
+    const c = text.charCodeAt(i) - 48;
+    if (c < 0 || c > 9) return -1;
+    v = v * 10 + c;
+  }
+  return v;
+}
+
+/** Offset text → ms (local − UTC); null when absent. */
+function offsetToMs(text: string, offset: string | undefined): number | null {
+  if (offset === undefined) return null;
+  const c = offset.charCodeAt(0);
+  if (c !== 43 && c !== 45) return 0; // Z, UTC, GMT
+  const digits = offset.slice(1).replace(":", "");
+  const hours = +digits.slice(0, 2);
+  const minutes = digits.length > 2 ? +digits.slice(2, 4) : 0;
+  if (hours > 18 || minutes > 59) throw new TimestampError("bad_offset", text, `impossible UTC offset "${offset}" in "${text}"`);
+  const ms = (hours * 60 + minutes) * MS_PER_MIN;
+  return c === 45 ? -ms : ms;
+}
+
+/** Check options and build a reader; throws RangeError on bad options. */
+export function createTimestampReader(options: TimeReadOptions = {}): TimestampReader {
+  const timeZone = options.timeZone ?? "UTC";
+  const timeBasis = options.timeBasis ?? "utc";
+  const clockOffsetS = options.clockOffsetS ?? 0;
+  if (!isKnownTimeZone(timeZone)) throw new RangeError(`unknown time zone "${timeZone}" (expected an IANA name such as Europe/Berlin)`);
+  if (timeBasis !== "utc" && timeBasis !== "gps") throw new RangeError(`unknown time basis "${String(timeBasis)}" (expected utc or gps)`);
+  if (timeBasis === "gps" && !isUtcZone(timeZone)) {
+    throw new RangeError("GPS time has no time zone: use a GPS time basis with time zone UTC");
+  }
+  if (!Number.isFinite(clockOffsetS)) throw new RangeError("clock offset must be a finite number of seconds");
+  const clockOffsetMs = Math.round(clockOffsetS * 1000);
+  const localToUtc = createLocalToUtc(timeZone);
+  let defaultDate: [number, number, number] | null = null;
+  if (options.defaultDate !== undefined) {
+    const m = DATE_ONLY_RE.exec(options.defaultDate);
+    if (!m) throw new RangeError(`default date "${options.defaultDate}" is not yyyy-mm-dd`);
+    defaultDate = [+m[1], +m[2], +m[3]];
+    assertCivilFields(options.defaultDate, defaultDate[0], defaultDate[1], defaultDate[2], 0, 0, 0);
+  }
+
+  function finish(text: string, y: number, mo: number, d: number, h: number, mi: number, s: number, ms: number, off: string | undefined): number {
+    assertCivilFields(text, y, mo, d, h, mi, s);
+    const packed = daysFromCivil(y, mo, d) * MS_PER_DAY + ((h * 60 + mi) * 60 + s) * 1000 + ms;
+    const offsetMs = offsetToMs(text, off);
+    let t = offsetMs === null ? localToUtc(packed) : packed - offsetMs;
+    t += clockOffsetMs;
+    if (timeBasis === "gps") t = gpsToUtcMs(t);
+    return t;
+  }
+
+  /** Fixed layout `yyyy-mm-ddThh:mm:ss[.f…][Z]` (or `/`, or a space for T) read by char codes; NaN if not that layout. */
+  function parseFixedLayout(text: string): number {
+    const n = text.length;
+    if (n < 19) return NaN;
+    const c4 = text.charCodeAt(4);
+    const c10 = text.charCodeAt(10);
+    if ((c4 !== 45 && c4 !== 47) || text.charCodeAt(7) !== c4 || (c10 !== 84 && c10 !== 32)) return NaN;
+    if (text.charCodeAt(13) !== 58 || text.charCodeAt(16) !== 58) return NaN;
+    let end = n;
+    let zulu = false;
+    if (text.charCodeAt(n - 1) === 90) {
+      zulu = true;
+      end = n - 1;
+    }
+    const y = digits(text, 0, 4), mo = digits(text, 5, 2), d = digits(text, 8, 2);
+    const h = digits(text, 11, 2), mi = digits(text, 14, 2), s = digits(text, 17, 2);
+    if (y < 0 || mo < 0 || d < 0 || h < 0 || mi < 0 || s < 0) return NaN;
+    let ms = 0;
+    if (end > 19) {
+      if (text.charCodeAt(19) !== 46 || end === 20) return NaN;
+      const frac = text.slice(20, end);
+      for (let i = 0; i < frac.length; i++) {
+        const c = frac.charCodeAt(i);
+        if (c < 48 || c > 57) return NaN;
+      }
+      ms = fractionToMs(frac);
+    }
+    return finish(text, y, mo, d, h, mi, s, ms, zulu ? "Z" : undefined);
+  }
+
+  function parse(text: string): number {
+    const fast = parseFixedLayout(text);
+    if (fast === fast) return fast;
+    let m = EXTENDED_RE.exec(text);
+    if (m) {
+      return finish(text, +m[1], +m[2], +m[3], m[4] ? +m[4] : 0, m[5] ? +m[5] : 0, m[6] ? +m[6] : 0, fractionToMs(m[7]), m[8]);
+    }
+    m = BASIC_RE.exec(text);
+    if (m) return finish(text, +m[1], +m[2], +m[3], +m[4], +m[5], m[6] ? +m[6] : 0, fractionToMs(m[7]), m[8]);
+    if (defaultDate) {
+      m = TIME_ONLY_RE.exec(text);
+      if (m) {
+        return finish(text, defaultDate[0], defaultDate[1], defaultDate[2], +m[1], +m[2], m[3] ? +m[3] : 0, fractionToMs(m[4]), m[5]);
+      }
+    }
+    throw new TimestampError("unrecognised_format", text, `unreadable timestamp "${text}" (expected e.g. 2026-05-04T09:15:00Z)`);
+  }
+
+  function parseDateAndTime(dateText: string, timeText: string): number {
+    const d = DATE_ONLY_RE.exec(dateText);
+    const t = TIME_ONLY_RE.exec(timeText);
+    const both = `${dateText.trim()} ${timeText.trim()}`;
+    if (!d || !t) throw new TimestampError("unrecognised_format", both, `unreadable date and time "${both}" (expected e.g. 2026-05-04 and 09:15:00)`);
+    return finish(both, +d[1], +d[2], +d[3], +t[1], +t[2], t[3] ? +t[3] : 0, fractionToMs(t[4]), t[5]);
+  }
+
+  return { parse, parseDateAndTime };
+}
+
+/** One-off convenience; build a reader with createTimestampReader for many rows. */
+export function parseTimestamp(text: string, options: TimeReadOptions = {}): number {
+  return createTimestampReader(options).parse(text);
+}
