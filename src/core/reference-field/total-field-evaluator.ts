@@ -1,6 +1,27 @@
-/** Placeholder-free first version: direct synthesis per reading (exact); the gridded form replaces it. */
-import { synthesizeField } from "./synthesis";
-import type { FieldModel } from "./model";
+/**
+ * Fast total-field evaluation for a survey: many readings in a small box over a short time.
+ *
+ * Built on the one synthesis routine (synthesizeFromCoefficients): coefficients are brought to a few
+ * time nodes once, the total field is synthesised on a regular latitude × longitude × height grid over
+ * the box at each time node, and a reading is evaluated by trilinear interpolation in space and linear
+ * interpolation in time.
+ *
+ * Why this is exact enough:
+ *  - Time: Gauss coefficients are linear in decimal year between epochs, and decimal year is linear in
+ *    time within a calendar year, so each field component is exactly linear in time between nodes placed
+ *    at the range ends, every 1 January and every model epoch inside the range. The total field is the
+ *    norm of that vector; nodes at most MAX_TIME_NODE_SPACING_MS apart keep its curvature error below
+ *    ~1e-3 nT (change of ≤ ~12 nT in 30 days: 12² / (8 · 20 000 nT)).
+ *  - Space: the grid starts at ~1 km spacing and is halved until the field at the centre of every
+ *    checked cell (where trilinear error peaks) agrees with direct synthesis to GRID_TOLERANCE_NT.
+ * Readings outside the box or time range fall back to direct synthesis (exact, slower); a time outside
+ * the model's validity throws OutsideModelValidityError.
+ */
+import { coefficientsAtYear, epochIntervalIndex } from "./coefficients-at-time";
+import { DEG_TO_RAD } from "./constants";
+import { decimalYear, timeMsFromDecimalYear, utcYearBoundsMs } from "./decimal-year";
+import type { CoefficientSet, FieldModel } from "./model";
+import { synthesizeField, synthesizeFromCoefficients } from "./synthesis";
 
 export interface TotalFieldEvaluatorOptions {
   minTimeMs: number;
@@ -13,9 +34,285 @@ export interface TotalFieldEvaluatorOptions {
   maxHeightM: number;
 }
 
+/** Total field (nT) of the reference model at a geodetic position and UTC instant. */
 export type TotalFieldEvaluator = (latDeg: number, lonDeg: number, heightM: number, timeMs: number) => number;
 
-export function createTotalFieldEvaluator(model: FieldModel, _opts: TotalFieldEvaluatorOptions): TotalFieldEvaluator {
-  return (latitudeDeg, longitudeDeg, heightM, timeMs) =>
+export interface TotalFieldGrid {
+  evaluate: TotalFieldEvaluator;
+  /** Nodes per axis; all zero when the box was too large and every reading uses direct synthesis. */
+  latNodeCount: number;
+  lonNodeCount: number;
+  heightNodeCount: number;
+  timeNodesMs: readonly number[];
+  /** Largest |grid − direct| seen at the checked cell centres, nT. */
+  checkedErrorNt: number;
+  usesGrid: boolean;
+}
+
+/** Worst disagreement with direct synthesis accepted at a checked cell centre, nT. */
+export const GRID_TOLERANCE_NT = 0.002;
+/** Longest time between nodes, ms (30 days). */
+export const MAX_TIME_NODE_SPACING_MS = 30 * 86_400_000;
+/** Starting horizontal node spacing, km, and vertical spacing, m. */
+const INITIAL_SPACING_KM = 1;
+const INITIAL_HEIGHT_SPACING_M = 500;
+/** Grid node budget per time node; beyond it the evaluator synthesises every reading directly. */
+const MAX_SPATIAL_NODES = 60_000;
+/** Cell centres checked against direct synthesis at most. */
+const MAX_CHECKED_CELLS = 400;
+/** Refinement rounds (each halves every spacing). */
+const MAX_REFINEMENTS = 5;
+const KM_PER_DEG_LAT = 111.2;
+/** Spacing used along an axis whose range is empty, so the two nodes stay distinct. */
+const DEGENERATE_STEP_DEG = 1e-6;
+const DEGENERATE_STEP_M = 1;
+
+interface Axis {
+  start: number;
+  step: number;
+  count: number;
+}
+
+function makeAxis(min: number, max: number, spacing: number, degenerateStep: number): Axis {
+  const span = max - min;
+  if (!(span > 0)) return { start: min, step: degenerateStep, count: 2 };
+  const count = Math.max(2, Math.ceil(span / spacing) + 1);
+  return { start: min, step: span / (count - 1), count };
+}
+
+function assertOptions(o: TotalFieldEvaluatorOptions): void {
+  const entries = Object.entries(o) as [keyof TotalFieldEvaluatorOptions, number][];
+  for (const [key, value] of entries) {
+    if (!Number.isFinite(value)) throw new RangeError(`evaluator option ${key} = ${value} is not finite`);
+  }
+  if (o.minTimeMs > o.maxTimeMs) throw new RangeError("evaluator minTimeMs is after maxTimeMs");
+  if (o.minLatDeg > o.maxLatDeg || o.minLonDeg > o.maxLonDeg || o.minHeightM > o.maxHeightM) {
+    throw new RangeError("evaluator box has a minimum above its maximum");
+  }
+  if (o.minLatDeg < -90 || o.maxLatDeg > 90) throw new RangeError("evaluator latitudes must be within −90° to 90°");
+}
+
+/** Time nodes: range ends, 1 January of each year and each model epoch inside, at most 30 days apart. */
+function timeNodes(model: FieldModel, fromMs: number, toMs: number): number[] {
+  const breaks = new Set<number>([fromMs, toMs]);
+  for (let { endMs } = utcYearBoundsMs(fromMs); endMs < toMs; endMs = utcYearBoundsMs(endMs).endMs) breaks.add(endMs);
+  for (const epoch of model.epochs) {
+    const epochMs = timeMsFromDecimalYear(epoch.year);
+    if (epochMs > fromMs && epochMs < toMs) breaks.add(epochMs);
+  }
+  const sorted = [...breaks].sort((a, b) => a - b);
+  const nodes: number[] = [sorted[0]];
+  for (let i = 1; i < sorted.length; i++) {
+    const gap = sorted[i] - sorted[i - 1];
+    const pieces = Math.ceil(gap / MAX_TIME_NODE_SPACING_MS);
+    for (let p = 1; p < pieces; p++) nodes.push(sorted[i - 1] + (gap * p) / pieces);
+    nodes.push(sorted[i]);
+  }
+  if (nodes.length === 1) nodes.push(nodes[0]); // single instant: one segment of zero length
+  return nodes;
+}
+
+function fillGrid(coefficients: CoefficientSet, lat: Axis, lon: Axis, height: Axis): Float64Array {
+  const values = new Float64Array(lat.count * lon.count * height.count);
+  let k = 0;
+  for (let ih = 0; ih < height.count; ih++) {
+    const heightM = height.start + ih * height.step;
+    for (let ilat = 0; ilat < lat.count; ilat++) {
+      const latDeg = lat.start + ilat * lat.step;
+      for (let ilon = 0; ilon < lon.count; ilon++) {
+        values[k++] = synthesizeFromCoefficients(coefficients, latDeg, lon.start + ilon * lon.step, heightM).totalNt;
+      }
+    }
+  }
+  return values;
+}
+
+/** Trilinear interpolation of one grid at fractional positions; (i, j, l) is the lower corner. */
+function trilinear(
+  v: Float64Array,
+  base: number,
+  lonStride: number,
+  latStride: number,
+  heightStride: number,
+  fLat: number,
+  fLon: number,
+  fHeight: number,
+): number {
+  const c000 = v[base];
+  const c001 = v[base + lonStride];
+  const c010 = v[base + latStride];
+  const c011 = v[base + latStride + lonStride];
+  const b = base + heightStride;
+  const c100 = v[b];
+  const c101 = v[b + lonStride];
+  const c110 = v[b + latStride];
+  const c111 = v[b + latStride + lonStride];
+  const low0 = c000 + fLon * (c001 - c000);
+  const low1 = c010 + fLon * (c011 - c010);
+  const high0 = c100 + fLon * (c101 - c100);
+  const high1 = c110 + fLon * (c111 - c110);
+  const low = low0 + fLat * (low1 - low0);
+  const high = high0 + fLat * (high1 - high0);
+  return low + fHeight * (high - low);
+}
+
+function axisPosition(axis: Axis, x: number): { index: number; fraction: number } {
+  const u = (x - axis.start) / axis.step;
+  let index = Math.floor(u);
+  if (index < 0) index = 0;
+  else if (index > axis.count - 2) index = axis.count - 2;
+  return { index, fraction: u - index };
+}
+
+/**
+ * Whether the summed degree changes inside the range: only under "lower-of-bracketing" truncation, where
+ * the field jumps at an epoch such as 2000.0; linear time interpolation cannot follow a jump, so such a
+ * range is synthesised directly.
+ */
+function hasDegreeJump(model: FieldModel, fromMs: number, toMs: number): boolean {
+  if (model.degreeConvention === "full") return false;
+  return epochIntervalIndex(model, decimalYear(fromMs)) !== epochIntervalIndex(model, decimalYear(toMs));
+}
+
+interface GridShape {
+  lat: Axis;
+  lon: Axis;
+  height: Axis;
+}
+
+function gridShape(o: TotalFieldEvaluatorOptions, refinement: number): GridShape {
+  const spacingKm = INITIAL_SPACING_KM / 2 ** refinement;
+  const maxAbsLatRad = Math.max(Math.abs(o.minLatDeg), Math.abs(o.maxLatDeg)) * DEG_TO_RAD;
+  const kmPerDegLon = Math.max(KM_PER_DEG_LAT * Math.cos(maxAbsLatRad), 1e-3);
+  return {
+    lat: makeAxis(o.minLatDeg, o.maxLatDeg, spacingKm / KM_PER_DEG_LAT, DEGENERATE_STEP_DEG),
+    lon: makeAxis(o.minLonDeg, o.maxLonDeg, spacingKm / kmPerDegLon, DEGENERATE_STEP_DEG),
+    height: makeAxis(o.minHeightM, o.maxHeightM, INITIAL_HEIGHT_SPACING_M / 2 ** refinement, DEGENERATE_STEP_M),
+  };
+}
+
+function nodeCount(shape: GridShape): number {
+  return shape.lat.count * shape.lon.count * shape.height.count;
+}
+
+/** Largest |trilinear − direct| at the centres of up to MAX_CHECKED_CELLS cells spread over the grid. */
+function checkCellCentres(coefficients: CoefficientSet, shape: GridShape, values: Float64Array): number {
+  const { lat, lon, height } = shape;
+  const cells = (lat.count - 1) * (lon.count - 1) * (height.count - 1);
+  const stride = Math.max(1, Math.floor(cells / MAX_CHECKED_CELLS));
+  const lonStride = 1;
+  const latStride = lon.count;
+  const heightStride = lon.count * lat.count;
+  let worst = 0;
+  const visit = (c: number) => {
+    const ilon = c % (lon.count - 1);
+    const ilat = Math.floor(c / (lon.count - 1)) % (lat.count - 1);
+    const ih = Math.floor(c / ((lon.count - 1) * (lat.count - 1)));
+    const base = ih * heightStride + ilat * latStride + ilon;
+    const gridded = trilinear(values, base, lonStride, latStride, heightStride, 0.5, 0.5, 0.5);
+    const direct = synthesizeFromCoefficients(
+      coefficients,
+      lat.start + (ilat + 0.5) * lat.step,
+      lon.start + (ilon + 0.5) * lon.step,
+      height.start + (ih + 0.5) * height.step,
+    ).totalNt;
+    worst = Math.max(worst, Math.abs(gridded - direct));
+  };
+  for (let c = 0; c < cells; c += stride) visit(c);
+  visit(cells - 1);
+  return worst;
+}
+
+/** Build the grid behind createTotalFieldEvaluator and report its size (for tests and benchmarks). */
+export function createTotalFieldGrid(model: FieldModel, opts: TotalFieldEvaluatorOptions): TotalFieldGrid {
+  assertOptions(opts);
+  const direct: TotalFieldEvaluator = (latitudeDeg, longitudeDeg, heightM, timeMs) =>
     synthesizeField(model, { latitudeDeg, longitudeDeg, heightM, timeMs }).totalNt;
+  const noGrid = (timeNodesMs: number[] = []): TotalFieldGrid => ({
+    evaluate: direct,
+    latNodeCount: 0,
+    lonNodeCount: 0,
+    heightNodeCount: 0,
+    timeNodesMs,
+    checkedErrorNt: 0,
+    usesGrid: false,
+  });
+
+  // Clip the time range to validity; readings outside it go to direct synthesis, which throws.
+  const validFromMs = Math.ceil(timeMsFromDecimalYear(model.validFromYear));
+  const validToMs = Math.floor(timeMsFromDecimalYear(model.validToYear));
+  const fromMs = Math.max(opts.minTimeMs, validFromMs);
+  const toMs = Math.min(opts.maxTimeMs, validToMs);
+  if (fromMs > toMs) return noGrid();
+  const nodesMs = timeNodes(model, fromMs, toMs);
+  if (hasDegreeJump(model, fromMs, toMs)) return noGrid(nodesMs);
+  const coefficientsAtNodes = nodesMs.map((t) => coefficientsAtYear(model, Math.min(decimalYear(t), model.validToYear)));
+
+  let shape: GridShape | null = null;
+  let firstValues: Float64Array | null = null;
+  let checkedErrorNt = Infinity;
+  for (let refinement = 0; refinement <= MAX_REFINEMENTS; refinement++) {
+    const candidate = gridShape(opts, refinement);
+    if (nodeCount(candidate) * nodesMs.length > MAX_SPATIAL_NODES * 4 || nodeCount(candidate) > MAX_SPATIAL_NODES) break;
+    const values = fillGrid(coefficientsAtNodes[0], candidate.lat, candidate.lon, candidate.height);
+    checkedErrorNt = checkCellCentres(coefficientsAtNodes[0], candidate, values);
+    if (checkedErrorNt <= GRID_TOLERANCE_NT) {
+      shape = candidate;
+      firstValues = values;
+      break;
+    }
+  }
+  if (!shape || !firstValues) return noGrid(nodesMs);
+
+  const { lat, lon, height } = shape;
+  const grids = [firstValues, ...coefficientsAtNodes.slice(1).map((c) => fillGrid(c, lat, lon, height))];
+  const latStride = lon.count;
+  const heightStride = lon.count * lat.count;
+  const latMax = lat.start + (lat.count - 1) * lat.step;
+  const lonMax = lon.start + (lon.count - 1) * lon.step;
+  const heightMax = height.start + (height.count - 1) * height.step;
+  const firstMs = nodesMs[0];
+  const lastMs = nodesMs[nodesMs.length - 1];
+  let segment = 0;
+
+  const evaluate: TotalFieldEvaluator = (latDeg, lonDeg, heightM, timeMs) => {
+    if (
+      !(latDeg >= lat.start && latDeg <= latMax) ||
+      !(lonDeg >= lon.start && lonDeg <= lonMax) ||
+      !(heightM >= height.start && heightM <= heightMax) ||
+      !(timeMs >= firstMs && timeMs <= lastMs)
+    ) {
+      return direct(latDeg, lonDeg, heightM, timeMs);
+    }
+    while (segment > 0 && timeMs < nodesMs[segment]) segment--;
+    while (segment < nodesMs.length - 2 && timeMs > nodesMs[segment + 1]) segment++;
+    const pLat = axisPosition(lat, latDeg);
+    const pLon = axisPosition(lon, lonDeg);
+    const pHeight = axisPosition(height, heightM);
+    const base = pHeight.index * heightStride + pLat.index * latStride + pLon.index;
+    const before = trilinear(grids[segment], base, 1, latStride, heightStride, pLat.fraction, pLon.fraction, pHeight.fraction);
+    const t0 = nodesMs[segment];
+    const t1 = nodesMs[segment + 1];
+    if (t1 === t0) return before;
+    const after = trilinear(grids[segment + 1], base, 1, latStride, heightStride, pLat.fraction, pLon.fraction, pHeight.fraction);
+    return before + ((timeMs - t0) / (t1 - t0)) * (after - before);
+  };
+
+  return {
+    evaluate,
+    latNodeCount: lat.count,
+    lonNodeCount: lon.count,
+    heightNodeCount: height.count,
+    timeNodesMs: nodesMs,
+    checkedErrorNt,
+    usesGrid: true,
+  };
+}
+
+/**
+ * Total-field evaluator for readings inside the given box and time range (see module comment).
+ * Throws OutsideModelValidityError for a reading whose time is outside the model's validity.
+ */
+export function createTotalFieldEvaluator(model: FieldModel, opts: TotalFieldEvaluatorOptions): TotalFieldEvaluator {
+  return createTotalFieldGrid(model, opts).evaluate;
 }
