@@ -1,0 +1,49 @@
+/**
+ * Database chores: `tsx scripts/db.ts migrate|seed|reset|status`.
+ * Uses the same migration source and database file (DATABASE_FILE) as the app.
+ */
+import fs from "node:fs";
+import { getEnv } from "../src/server/env";
+import { createDb } from "../src/server/db/create-db";
+import { migrateToLatest, migrationLevel } from "../src/server/db/migration-source";
+import { seed } from "../seeds/01_demo";
+
+const USAGE = "usage: tsx scripts/db.ts migrate | seed | reset | status";
+
+async function main(command: string | undefined): Promise<void> {
+  if (!command || !["migrate", "seed", "reset", "status"].includes(command)) {
+    console.error(USAGE);
+    process.exitCode = 2;
+    return;
+  }
+  const file = getEnv().databaseFile;
+  if (command === "reset") {
+    for (const suffix of ["", "-wal", "-shm"]) fs.rmSync(file + suffix, { force: true });
+    console.log(`deleted ${file}`);
+  }
+  const knex = createDb(file);
+  try {
+    if (command === "migrate" || command === "reset") {
+      const applied = await migrateToLatest(knex);
+      console.log(applied.length ? `applied migrations: ${applied.join(", ")}` : "migrations: already up to date");
+    }
+    if (command === "seed" || command === "reset") {
+      const level = await migrationLevel(knex);
+      if (level.pending > 0) throw new Error(`${level.pending} migration(s) pending; run \`npm run db:migrate\` first`);
+      const r = await seed(knex);
+      console.log(
+        `seeded demo data: ${r.users} users, ${r.surveys} surveys, ${r.members} memberships` +
+          (r.replaced ? ` (replaced ${r.replaced} existing demo rows)` : ""),
+      );
+    }
+    const level = await migrationLevel(knex);
+    console.log(`database ${file}: migration ${level.current ?? "none"} of ${level.latest}, ${level.pending} pending`);
+  } finally {
+    await knex.destroy();
+  }
+}
+
+main(process.argv[2]).catch((err: unknown) => {
+  console.error(`db: ${err instanceof Error ? err.message : String(err)}`);
+  process.exitCode = 1;
+});

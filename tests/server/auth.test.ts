@@ -1,0 +1,77 @@
+import { describe, expect, it } from "vitest";
+import { setupTestDatabase } from "../support/test-db";
+
+setupTestDatabase({ SESSION_TTL_HOURS: "2" });
+
+const accounts = await import("@/src/server/auth/accounts");
+const { getDb } = await import("@/src/server/db/client");
+const { makeUser } = await import("../support/fixtures");
+
+describe("password sign-in", () => {
+  it("stores argon2id hashes and accepts the right password", async () => {
+    const hash = await accounts.hashPassword("correct horse battery");
+    expect(hash.startsWith("$argon2id$")).toBe(true);
+    expect(await accounts.verifyPassword(hash, "correct horse battery")).toBe(true);
+    expect(await accounts.verifyPassword(hash, "correct horse batterY")).toBe(false);
+
+    const user = await makeUser({ password: "a-good-long-password" });
+    const actor = await accounts.authenticate(user.email.toUpperCase(), "a-good-long-password");
+    expect(actor).toEqual({ userId: user.userId, email: user.email, name: user.name, isAdmin: false });
+  });
+
+  it("refuses a wrong password and an unknown e-mail with the same message", async () => {
+    const user = await makeUser({ password: "a-good-long-password" });
+    expect(await accounts.authenticate(user.email, "a-wrong-password")).toBeNull();
+
+    const wrong = await accounts.authenticateInput({ email: user.email, password: "a-wrong-password" }).catch((e: unknown) => e);
+    const unknown = await accounts.authenticateInput({ email: "nobody@test.example", password: "a-wrong-password" }).catch((e: unknown) => e);
+    expect(wrong).toMatchObject({ code: "validation_failed", formError: accounts.WRONG_CREDENTIALS });
+    expect(unknown).toMatchObject({ code: "validation_failed", formError: accounts.WRONG_CREDENTIALS });
+    expect((unknown as Error).message).toBe((wrong as Error).message);
+  });
+
+  it("gives field errors for malformed input", async () => {
+    const err = await accounts.authenticateInput({ email: "not-an-email", password: "" }).catch((e: unknown) => e);
+    expect(err).toMatchObject({ code: "validation_failed" });
+    expect(Object.keys((err as { fieldErrors: object }).fieldErrors).sort()).toEqual(["email", "password"]);
+  });
+});
+
+describe("sessions", () => {
+  it("creates a session that validates to the actor, stored in SQLite with expiry in seconds", async () => {
+    const user = await makeUser();
+    const before = Date.now();
+    const session = await accounts.createSession(user.userId);
+    const row = await getDb()("sessions").where({ id: session.id }).first();
+    expect(row.user_id).toBe(user.userId);
+    // SESSION_TTL_HOURS=2 → expires about 7200 s from now
+    expect(row.expires_at).toBeGreaterThanOrEqual(Math.floor(before / 1000) + 7200 - 1);
+    expect(row.expires_at).toBeLessThanOrEqual(Math.floor(Date.now() / 1000) + 7200 + 1);
+    expect(await accounts.validateSessionId(session.id)).toMatchObject({ userId: user.userId });
+  });
+
+  it("treats an expired session as invalid and deletes it", async () => {
+    const user = await makeUser();
+    const session = await accounts.createSession(user.userId);
+    await getDb()("sessions").where({ id: session.id }).update({ expires_at: Math.floor(Date.now() / 1000) - 1 });
+    expect(await accounts.validateSessionId(session.id)).toBeNull();
+    expect(await getDb()("sessions").where({ id: session.id }).first()).toBeUndefined();
+  });
+
+  it("rejects unknown ids and ends a session on sign-out", async () => {
+    const user = await makeUser();
+    expect(await accounts.validateSessionId("no-such-session")).toBeNull();
+    const session = await accounts.createSession(user.userId);
+    await accounts.invalidateSession(session.id);
+    expect(await accounts.validateSessionId(session.id)).toBeNull();
+  });
+
+  it("builds an httpOnly SameSite=Lax cookie, not secure on http", async () => {
+    const cookie = accounts.sessionCookie("abc").serialize();
+    expect(cookie).toMatch(/^fieldtide_session=abc;/);
+    expect(cookie).toMatch(/HttpOnly/);
+    expect(cookie).toMatch(/SameSite=Lax/);
+    expect(cookie).not.toMatch(/Secure/);
+    expect(cookie).toMatch(/Max-Age=7200/);
+  });
+});
