@@ -1,0 +1,114 @@
+import { describe, expect, it } from "vitest";
+import {
+  OutsideModelValidityError,
+  createTotalFieldEvaluator,
+  synthesizeField,
+  type FieldModel,
+} from "@/src/core/reference-field";
+import { createTotalFieldGrid } from "@/src/core/reference-field/total-field-evaluator";
+import { igrfModel, wmmModel } from "./reference-files";
+
+// The batch evaluator is checked against direct synthesis (same model, known answer by construction).
+// Requirement: within 0.01 nT anywhere in a 5 km × 5 km survey box over a whole day.
+const TOLERANCE_NT = 0.01;
+const DAY_MS = 86_400_000;
+const KM_PER_DEG_LAT = 111.2;
+
+/** Deterministic uniform numbers in [0, 1) (LCG, Numerical Recipes constants). */
+function sequence(seed: number): () => number {
+  let state = seed >>> 0;
+  return () => {
+    state = (Math.imul(state, 1664525) + 1013904223) >>> 0;
+    return state / 2 ** 32;
+  };
+}
+
+function box(latDeg: number, lonDeg: number, sizeKm: number, dayMs: number, days = 1) {
+  const dLat = sizeKm / KM_PER_DEG_LAT;
+  const dLon = sizeKm / (KM_PER_DEG_LAT * Math.cos((latDeg * Math.PI) / 180));
+  return {
+    minTimeMs: dayMs,
+    maxTimeMs: dayMs + days * DAY_MS,
+    minLatDeg: latDeg,
+    maxLatDeg: latDeg + dLat,
+    minLonDeg: lonDeg,
+    maxLonDeg: lonDeg + dLon,
+    minHeightM: -50,
+    maxHeightM: 1200,
+  };
+}
+
+function worstDifference(model: FieldModel, opts: ReturnType<typeof box>, samples: number, seed: number): number {
+  const evaluate = createTotalFieldEvaluator(model, opts);
+  const random = sequence(seed);
+  let worst = 0;
+  for (let i = 0; i < samples; i++) {
+    const latitudeDeg = opts.minLatDeg + random() * (opts.maxLatDeg - opts.minLatDeg);
+    const longitudeDeg = opts.minLonDeg + random() * (opts.maxLonDeg - opts.minLonDeg);
+    const heightM = opts.minHeightM + random() * (opts.maxHeightM - opts.minHeightM);
+    const timeMs = Math.round(opts.minTimeMs + random() * (opts.maxTimeMs - opts.minTimeMs));
+    const direct = synthesizeField(model, { latitudeDeg, longitudeDeg, heightM, timeMs }).totalNt;
+    worst = Math.max(worst, Math.abs(evaluate(latitudeDeg, longitudeDeg, heightM, timeMs) - direct));
+  }
+  return worst;
+}
+
+describe("total-field evaluator against direct synthesis", () => {
+  const igrf = igrfModel();
+  const sites: Array<[string, number, number]> = [
+    ["South Atlantic anomaly, Brazil", -23.5, -43.7],
+    ["equator, Borneo", 0.2, 114.5],
+    ["mid-latitude, central Europe", 50.9, 7.1],
+    ["high latitude, Svalbard", 78.2, 15.6],
+    ["near the south magnetic pole region", -66.5, 140.0],
+    ["close to the geographic north pole", 88.5, -40.0],
+  ];
+
+  it.each(sites)("%s (%f°, %f°): 5 km box, one day in 2026, within 0.01 nT", (_name, lat, lon) => {
+    const opts = box(lat, lon, 5, Date.UTC(2026, 4, 11));
+    expect(createTotalFieldGrid(igrf, opts).usesGrid).toBe(true);
+    expect(worstDifference(igrf, opts, 1500, 7)).toBeLessThanOrEqual(TOLERANCE_NT);
+  });
+
+  it("holds for a day inside an epoch interval, across New Year's midnight (1 January kink)", () => {
+    const opts = box(44.5, -110.5, 5, Date.UTC(2013, 11, 31, 12));
+    expect(worstDifference(igrf, opts, 1500, 11)).toBeLessThanOrEqual(TOLERANCE_NT);
+  });
+
+  it("holds for a 3-month campaign and for a day in 1996 (degree 10 → 13 interval)", () => {
+    expect(worstDifference(igrf, box(-31.9, 115.9, 5, Date.UTC(2024, 10, 1), 92), 1500, 3)).toBeLessThanOrEqual(TOLERANCE_NT);
+    expect(worstDifference(igrf, box(60.2, 24.9, 5, Date.UTC(1996, 5, 1)), 1000, 5)).toBeLessThanOrEqual(TOLERANCE_NT);
+  });
+
+  it("holds with WMM2025", () => {
+    expect(worstDifference(wmmModel(), box(35.0, 139.5, 5, Date.UTC(2027, 1, 20)), 1500, 13)).toBeLessThanOrEqual(TOLERANCE_NT);
+  });
+
+  it("falls back to exact synthesis for readings outside the box or time range", () => {
+    const opts = box(50.9, 7.1, 5, Date.UTC(2026, 4, 11));
+    const evaluate = createTotalFieldEvaluator(igrf, opts);
+    const outside = { latitudeDeg: 52, longitudeDeg: 9, heightM: 0, timeMs: Date.UTC(2026, 6, 1) };
+    expect(evaluate(outside.latitudeDeg, outside.longitudeDeg, outside.heightM, outside.timeMs)).toBe(
+      synthesizeField(igrf, outside).totalNt,
+    );
+  });
+
+  it("throws OutsideModelValidityError for a reading outside the model's validity", () => {
+    const evaluate = createTotalFieldEvaluator(igrf, box(50.9, 7.1, 5, Date.UTC(2029, 11, 31), 3));
+    expect(() => evaluate(50.91, 7.11, 100, Date.UTC(2029, 11, 31, 12))).not.toThrow();
+    expect(() => evaluate(50.91, 7.11, 100, Date.UTC(2030, 0, 1, 12))).toThrow(OutsideModelValidityError);
+  });
+
+  it("gives a single-point box and a single instant exactly the direct value", () => {
+    const t = Date.UTC(2025, 8, 3, 9, 30);
+    const evaluate = createTotalFieldEvaluator(igrf, {
+      minTimeMs: t, maxTimeMs: t, minLatDeg: -12.3, maxLatDeg: -12.3, minLonDeg: 45, maxLonDeg: 45, minHeightM: 10, maxHeightM: 10,
+    });
+    expect(evaluate(-12.3, 45, 10, t)).toBeCloseTo(synthesizeField(igrf, { latitudeDeg: -12.3, longitudeDeg: 45, heightM: 10, timeMs: t }).totalNt, 9);
+  });
+
+  it("rejects a box with its minimum above its maximum", () => {
+    const opts = { ...box(10, 10, 5, Date.UTC(2026, 0, 1)), minLatDeg: 11 };
+    expect(() => createTotalFieldEvaluator(igrf, opts)).toThrow(RangeError);
+  });
+});
