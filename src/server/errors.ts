@@ -54,9 +54,9 @@ export class ConflictError extends AppError {
   }
 }
 
-export type InvalidTokenReason = "unknown" | "expired" | "used";
+export type InvalidTokenReason = "unknown" | "expired" | "used" | "revoked";
 
-/** 400 (unknown) or 410 (expired, used): invitation or password-reset link that cannot be used. */
+/** 400 (unknown) or 410 (expired, used, revoked): invitation or password-reset link that cannot be used. */
 export class InvalidTokenError extends AppError {
   readonly reason: InvalidTokenReason;
   constructor(reason: InvalidTokenReason, message: string) {

@@ -4,10 +4,14 @@
  */
 import type { Knex } from "knex";
 import * as m0001 from "@/migrations/0001_foundation";
+import * as m0002 from "@/migrations/0002_field_logs";
 
 type Migration = { up(knex: Knex): Promise<void>; down(knex: Knex): Promise<void> };
 
-const MIGRATIONS: ReadonlyArray<readonly [string, Migration]> = [["0001_foundation", m0001]];
+const MIGRATIONS: ReadonlyArray<readonly [string, Migration]> = [
+  ["0001_foundation", m0001],
+  ["0002_field_logs", m0002],
+];
 
 export const MIGRATION_NAMES: readonly string[] = MIGRATIONS.map(([name]) => name);
 

@@ -1,0 +1,190 @@
+import "server-only";
+/**
+ * Original log files, kept verbatim under UPLOAD_DIR. An upload is first written to a temp file
+ * (hashed with SHA-256 and counted as it streams, fsync'd), and moved into place under a
+ * generated key only when the import that owns it commits; on failure the temp file is removed.
+ * File names from uploads never reach a filesystem path: keys are generated here.
+ */
+import { createHash, randomUUID } from "node:crypto";
+import fs from "node:fs";
+import path from "node:path";
+import { pipeline } from "node:stream/promises";
+import { Transform, type Readable } from "node:stream";
+import { getEnv } from "../env";
+import { FileTooLargeError } from "./errors";
+
+/** Largest original accepted: 200 MiB. */
+export const MAX_UPLOAD_BYTES = 200 * 1024 * 1024;
+/** Bytes kept from the start of a file for sniffing (binary check, header line). */
+const HEAD_BYTES = 64 * 1024;
+const KEY_RE = /^[0-9a-f-]{36}$/;
+
+export interface StagedFile {
+  tempPath: string;
+  sha256: string;
+  sizeBytes: number;
+  /** First bytes of the file (up to 64 KiB). */
+  head: Buffer;
+  /** A NUL byte anywhere, or many control characters at the start: not a text log. */
+  looksBinary: boolean;
+  /** The bytes are valid UTF-8 (else they are read as Windows-1252). */
+  utf8: boolean;
+}
+
+function uploadRoot(): string {
+  return getEnv().uploadDir;
+}
+
+function tempDir(): string {
+  return path.join(uploadRoot(), "tmp");
+}
+
+function originalsDir(): string {
+  return path.join(uploadRoot(), "originals");
+}
+
+/** Path of a stored original; throws on a key this module did not make. */
+export function storedPath(storageKey: string): string {
+  if (!KEY_RE.test(storageKey)) throw new Error("invalid storage key");
+  return path.join(originalsDir(), storageKey);
+}
+
+export function newStorageKey(): string {
+  return randomUUID();
+}
+
+function controlCharShare(head: Buffer): number {
+  if (head.length === 0) return 0;
+  let bad = 0;
+  for (const b of head) {
+    if (b < 0x20 && b !== 0x09 && b !== 0x0a && b !== 0x0d && b !== 0x0c) bad++;
+  }
+  return bad / head.length;
+}
+
+/**
+ * Streams `source` to a temp file while hashing and counting. Throws FileTooLargeError (and
+ * removes the temp file) as soon as more than `maxBytes` arrive; removes it on any other error.
+ */
+export async function stageUpload(source: Readable | AsyncIterable<Uint8Array>, opts: { maxBytes?: number } = {}): Promise<StagedFile> {
+  const maxBytes = opts.maxBytes ?? MAX_UPLOAD_BYTES;
+  fs.mkdirSync(tempDir(), { recursive: true });
+  const tempPath = path.join(tempDir(), `${randomUUID()}.part`);
+  const hash = createHash("sha256");
+  const headParts: Buffer[] = [];
+  let headLength = 0;
+  let sizeBytes = 0;
+  let sawNul = false;
+  const utf8Check = new TextDecoder("utf-8", { fatal: true });
+  let utf8 = true;
+  const meter = new Transform({
+    transform(chunk: Buffer, _enc, done) {
+      sizeBytes += chunk.length;
+      if (sizeBytes > maxBytes) {
+        done(new FileTooLargeError(maxBytes));
+        return;
+      }
+      hash.update(chunk);
+      if (!sawNul && chunk.indexOf(0) >= 0) sawNul = true;
+      if (utf8) {
+        try {
+          utf8Check.decode(chunk, { stream: true });
+        } catch {
+          utf8 = false;
+        }
+      }
+      if (headLength < HEAD_BYTES) {
+        const part = chunk.subarray(0, HEAD_BYTES - headLength);
+        headParts.push(Buffer.from(part));
+        headLength += part.length;
+      }
+      done(null, chunk);
+    },
+  });
+  const fd = fs.openSync(tempPath, "wx");
+  try {
+    await pipeline(source as Readable, meter, fs.createWriteStream("", { fd, autoClose: false }));
+    fs.fsyncSync(fd);
+  } catch (err) {
+    closeQuietly(fd);
+    fs.rmSync(tempPath, { force: true });
+    throw err;
+  }
+  fs.closeSync(fd);
+  if (utf8) {
+    try {
+      utf8Check.decode();
+    } catch {
+      utf8 = false;
+    }
+  }
+  const head = Buffer.concat(headParts);
+  return {
+    tempPath,
+    sha256: hash.digest("hex"),
+    sizeBytes,
+    head,
+    looksBinary: sawNul || controlCharShare(head) > 0.01,
+    utf8,
+  };
+}
+
+function closeQuietly(fd: number): void {
+  try {
+    fs.closeSync(fd);
+  } catch {
+    /* already closed */
+  }
+}
+
+function fsyncDir(dir: string): void {
+  try {
+    const fd = fs.openSync(dir, "r");
+    try {
+      fs.fsyncSync(fd);
+    } finally {
+      fs.closeSync(fd);
+    }
+  } catch {
+    /* some filesystems refuse fsync on a directory; the rename itself is atomic */
+  }
+}
+
+/** Moves a staged file into place under `storageKey` (atomic rename in the same filesystem). */
+export function commitStaged(staged: StagedFile, storageKey: string): string {
+  const target = storedPath(storageKey);
+  fs.mkdirSync(originalsDir(), { recursive: true });
+  fs.renameSync(staged.tempPath, target);
+  fsyncDir(originalsDir());
+  return target;
+}
+
+/** Removes a staged temp file (no error when it is already gone). */
+export function discardStaged(staged: StagedFile | null | undefined): void {
+  if (staged) fs.rmSync(staged.tempPath, { force: true });
+}
+
+/** Removes a stored original (used when the database commit fails after the rename). */
+export function removeStored(storageKey: string): void {
+  fs.rmSync(storedPath(storageKey), { force: true });
+}
+
+export function storedExists(storageKey: string): boolean {
+  return fs.existsSync(storedPath(storageKey));
+}
+
+/** A read stream of a stored original. */
+export function openStored(storageKey: string): fs.ReadStream {
+  return fs.createReadStream(storedPath(storageKey));
+}
+
+/** A read stream of a staged (not yet committed) file, in large chunks. */
+export function openStaged(staged: StagedFile): fs.ReadStream {
+  return fs.createReadStream(staged.tempPath, { highWaterMark: 1024 * 1024 });
+}
+
+/** Names of files currently in the temp and originals folders (tests check nothing is left over). */
+export function listStorage(): { temp: string[]; originals: string[] } {
+  const list = (dir: string) => (fs.existsSync(dir) ? fs.readdirSync(dir).sort() : []);
+  return { temp: list(tempDir()), originals: list(originalsDir()) };
+}
