@@ -1,0 +1,247 @@
+/**
+ * Diurnal and main-field correction of rover readings against a base series.
+ *
+ * Per reading, with B(t) the base interpolated to the reading time and D the datum:
+ *   diurnal   = B(t) − D                   (datum = reference: diurnal = B(t) − I_B(t), the main
+ *                                           field at the base position at t; USGS CMGDS 2017-686-FA)
+ *   corrected = (F − instrumentOffsetNt) − diurnal     (instrument offset = rover − base, nT; Milsom)
+ *   reference = I(x, t), total field of the injected model at the reading
+ *   residual  = corrected − reference
+ * A reading that cannot be corrected keeps its place with NaN values and flags saying why.
+ */
+import { createBaseInterpolator, CoverStatus, type InterpolationMethod, DEFAULT_MAX_GAP_S } from "./base-interpolator";
+import type { BaseSeries } from "./base-series";
+import { resolveNumericDatum, type DatumChoice } from "./datum";
+import { CorrectionFlag, type CorrectionFlagName } from "./flags";
+import type { BasePosition, ReferenceFieldEvaluator } from "./reference-evaluator";
+
+export interface RoverReadings {
+  count?: number;
+  timeMs: ArrayLike<number>;
+  fieldNt: ArrayLike<number>;
+  latDeg?: ArrayLike<number> | null;
+  lonDeg?: ArrayLike<number> | null;
+  heightM?: ArrayLike<number> | null;
+}
+
+export interface CorrectionOptions {
+  /** Default "median" of the base record. */
+  datum?: DatumChoice;
+  method?: InterpolationMethod;
+  /** Default 120 s. */
+  maxGapS?: number;
+  /** Rover − base instrument offset (nT), subtracted from each raw reading; default 0. */
+  instrumentOffsetNt?: number;
+  /** Needed for datum "reference". */
+  basePosition?: BasePosition | null;
+  /** Height used where a reading has none (m above the ellipsoid); default 0. */
+  defaultHeightM?: number;
+  /** Rover indices that are base occupations (looped surveys); flagged base_occupation. */
+  baseOccupations?: ArrayLike<number> | null;
+}
+
+export interface CorrectionColumns {
+  count: number;
+  baseNt: Float64Array;
+  diurnalNt: Float64Array;
+  correctedNt: Float64Array;
+  referenceNt: Float64Array;
+  residualNt: Float64Array;
+  /** Bits of CorrectionFlag. */
+  flags: Uint8Array;
+}
+
+export interface CorrectionSummary {
+  datum: DatumChoice;
+  /** The numeric datum used; null for datum "reference". */
+  datumNt: number | null;
+  method: InterpolationMethod;
+  maxGapS: number;
+  instrumentOffsetNt: number;
+  /** Label of the reference model, null when none. */
+  referenceModel: string | null;
+  count: number;
+  correctedCount: number;
+  residualCount: number;
+  flagCounts: Record<CorrectionFlagName, number>;
+  warnings: string[];
+}
+
+export interface CorrectionResult extends CorrectionColumns {
+  summary: CorrectionSummary;
+}
+
+export interface Corrector {
+  readonly datumNt: number | null;
+  /**
+   * Correct one batch. Duplicate times: `duplicateMarks` (e.g. duplicateTimeMarks over the whole
+   * log, sliced to this batch) when given; otherwise a reading equal in time to the previous one
+   * (also across batches) is flagged with it.
+   */
+  correctBatch(rover: RoverReadings, duplicateMarks?: Uint8Array): CorrectionColumns;
+  summary(): CorrectionSummary;
+}
+
+function countOf(rover: RoverReadings): number {
+  return rover.count ?? rover.timeMs.length;
+}
+
+/** Build a corrector for a base series; throws RangeError on bad options. */
+export function createCorrector(base: BaseSeries, reference: ReferenceFieldEvaluator | null, options: CorrectionOptions = {}): Corrector {
+  const datum = options.datum ?? "median";
+  const method = options.method ?? "linear";
+  const maxGapS = options.maxGapS ?? DEFAULT_MAX_GAP_S;
+  const instrumentOffsetNt = options.instrumentOffsetNt ?? 0;
+  const defaultHeightM = options.defaultHeightM ?? 0;
+  if (!Number.isFinite(instrumentOffsetNt)) throw new RangeError("instrument offset must be a finite number of nT");
+  const datumNt = resolveNumericDatum(datum, base.fieldNt);
+  const basePos = options.basePosition ?? null;
+  if (datum === "reference") {
+    if (!reference) throw new RangeError("datum 'reference' needs a reference model (not --reference none)");
+    if (!basePos || !Number.isFinite(basePos.latDeg) || !Number.isFinite(basePos.lonDeg)) {
+      throw new RangeError("datum 'reference' needs the base position (latitude, longitude, height)");
+    }
+  }
+  const interp = createBaseInterpolator(base, { method, maxGapS });
+  const occupations = options.baseOccupations ? new Set(Array.from(options.baseOccupations)) : null;
+  const flagCounts: Record<CorrectionFlagName, number> = {
+    no_base_cover: 0, base_gap: 0, outside_model_validity: 0, duplicate_time: 0, no_position: 0, base_occupation: 0,
+  };
+  let total = 0;
+  let correctedCount = 0;
+  let residualCount = 0;
+  let prevTimeMs = NaN;
+  let offset = 0; // index of the batch's first reading in the whole log
+  let heightDefaulted = 0;
+  const baseHeightM = basePos && Number.isFinite(basePos.heightM) ? basePos.heightM : defaultHeightM;
+
+  function correctBatch(rover: RoverReadings, duplicate?: Uint8Array): CorrectionColumns {
+    const n = countOf(rover);
+    const out: CorrectionColumns = {
+      count: n,
+      baseNt: new Float64Array(n),
+      diurnalNt: new Float64Array(n),
+      correctedNt: new Float64Array(n),
+      referenceNt: new Float64Array(n),
+      residualNt: new Float64Array(n),
+      flags: new Uint8Array(n),
+    };
+    const { timeMs, fieldNt } = rover;
+    const lat = rover.latDeg ?? null;
+    const lon = rover.lonDeg ?? null;
+    const hgt = rover.heightM ?? null;
+    for (let i = 0; i < n; i++) {
+      const t = timeMs[i];
+      let flags = 0;
+      if (duplicate ? duplicate[i] : t === prevTimeMs) flags |= CorrectionFlag.duplicateTime;
+      if (!duplicate && t === prevTimeMs && i > 0 && !(out.flags[i - 1] & CorrectionFlag.duplicateTime)) {
+        out.flags[i - 1] |= CorrectionFlag.duplicateTime; // mark both members of an adjacent pair
+        flagCounts.duplicate_time++;
+      }
+      prevTimeMs = t;
+      if (occupations && occupations.has(offset + i)) flags |= CorrectionFlag.baseOccupation;
+
+      // reference at the reading
+      let refNt = NaN;
+      const covered = reference ? reference.covers(t) : false;
+      const la = lat ? lat[i] : NaN;
+      const lo = lon ? lon[i] : NaN;
+      if (reference) {
+        if (la !== la || lo !== lo) flags |= CorrectionFlag.noPosition;
+        else if (!covered) flags |= CorrectionFlag.outsideModelValidity;
+        else {
+          let h = hgt ? hgt[i] : NaN;
+          if (h !== h) {
+            h = defaultHeightM;
+            heightDefaulted++;
+          }
+          refNt = reference.totalNt(la, lo, h, t);
+        }
+      } else if (la !== la || lo !== lo) {
+        flags |= CorrectionFlag.noPosition;
+      }
+
+      // diurnal
+      const b = interp.at(t);
+      let diurnal = NaN;
+      if (b !== b) {
+        flags |= interp.status === CoverStatus.BaseGap ? CorrectionFlag.baseGap : CorrectionFlag.noBaseCover;
+      } else if (datumNt !== null) {
+        diurnal = b - datumNt;
+      } else if (covered) {
+        diurnal = b - reference!.totalNt(basePos!.latDeg, basePos!.lonDeg, baseHeightM, t);
+      } else {
+        flags |= CorrectionFlag.outsideModelValidity;
+      }
+      const corrected = fieldNt[i] - instrumentOffsetNt - diurnal;
+      const residual = corrected - refNt;
+      out.baseNt[i] = b;
+      out.diurnalNt[i] = diurnal;
+      out.correctedNt[i] = corrected;
+      out.referenceNt[i] = refNt;
+      out.residualNt[i] = residual;
+      out.flags[i] = flags;
+      if (corrected === corrected) correctedCount++;
+      if (residual === residual) residualCount++;
+      if (flags) {
+        if (flags & CorrectionFlag.noBaseCover) flagCounts.no_base_cover++;
+        if (flags & CorrectionFlag.baseGap) flagCounts.base_gap++;
+        if (flags & CorrectionFlag.outsideModelValidity) flagCounts.outside_model_validity++;
+        if (flags & CorrectionFlag.duplicateTime) flagCounts.duplicate_time++;
+        if (flags & CorrectionFlag.noPosition) flagCounts.no_position++;
+        if (flags & CorrectionFlag.baseOccupation) flagCounts.base_occupation++;
+      }
+    }
+    total += n;
+    offset += n;
+    return out;
+  }
+
+  return {
+    datumNt,
+    correctBatch,
+    summary(): CorrectionSummary {
+      const warnings: string[] = [];
+      if (heightDefaulted > 0) warnings.push(`${heightDefaulted} readings had no height: the reference field used ${defaultHeightM} m`);
+      return {
+        datum, datumNt, method, maxGapS, instrumentOffsetNt,
+        referenceModel: reference ? reference.label : null,
+        count: total, correctedCount, residualCount, flagCounts: { ...flagCounts }, warnings,
+      };
+    },
+  };
+}
+
+/** Mark every reading whose time occurs more than once in the whole log. */
+export function duplicateTimeMarks(timeMs: ArrayLike<number>, count = timeMs.length): Uint8Array {
+  const marks = new Uint8Array(count);
+  let sorted = true;
+  for (let i = 1; i < count; i++) {
+    if (timeMs[i] < timeMs[i - 1]) {
+      sorted = false;
+      break;
+    }
+  }
+  if (sorted) {
+    for (let i = 1; i < count; i++) if (timeMs[i] === timeMs[i - 1]) marks[i] = marks[i - 1] = 1;
+    return marks;
+  }
+  const copy = Float64Array.from({ length: count }, (_, i) => timeMs[i]).sort();
+  const dups = new Set<number>();
+  for (let i = 1; i < count; i++) if (copy[i] === copy[i - 1]) dups.add(copy[i]);
+  if (dups.size > 0) for (let i = 0; i < count; i++) if (dups.has(timeMs[i])) marks[i] = 1;
+  return marks;
+}
+
+/** Correct a whole rover log at once (duplicate times found anywhere in the log). */
+export function correctReadings(
+  rover: RoverReadings,
+  base: BaseSeries,
+  reference: ReferenceFieldEvaluator | null,
+  options: CorrectionOptions = {},
+): CorrectionResult {
+  const corrector = createCorrector(base, reference, options);
+  const columns = corrector.correctBatch(rover, duplicateTimeMarks(rover.timeMs, countOf(rover)));
+  return { ...columns, summary: corrector.summary() };
+}
+

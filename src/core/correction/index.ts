@@ -1,0 +1,24 @@
+export { CorrectionFlag, flagNames, createFlagJoiner, type CorrectionFlagName } from "./flags";
+export { prepareBaseSeries, type BaseSeries, type PreparedBaseSeries } from "./base-series";
+export {
+  createBaseInterpolator,
+  CoverStatus,
+  DEFAULT_MAX_GAP_S,
+  type BaseInterpolator,
+  type BaseInterpolationOptions,
+  type InterpolationMethod,
+} from "./base-interpolator";
+export { resolveNumericDatum, type DatumChoice } from "./datum";
+export { loopBaseFromReadings, loopBaseFromStation, type LoopBase } from "./loop-base";
+export type { ReferenceFieldEvaluator, BasePosition } from "./reference-evaluator";
+export {
+  createCorrector,
+  correctReadings,
+  duplicateTimeMarks,
+  type Corrector,
+  type CorrectionColumns,
+  type CorrectionOptions,
+  type CorrectionResult,
+  type CorrectionSummary,
+  type RoverReadings,
+} from "./correct-readings";

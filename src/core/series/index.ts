@@ -1,0 +1,3 @@
+export { lastIndexAtOrBefore } from "./sorted-search";
+export { median, mean, medianAbsoluteDeviation, extent } from "./stats";
+export { naturalSplineSecondDerivatives, evaluateSplineInterval } from "./natural-cubic-spline";
