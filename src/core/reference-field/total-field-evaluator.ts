@@ -156,14 +156,6 @@ function trilinear(
   return low + fHeight * (high - low);
 }
 
-function axisPosition(axis: Axis, x: number): { index: number; fraction: number } {
-  const u = (x - axis.start) / axis.step;
-  let index = Math.floor(u);
-  if (index < 0) index = 0;
-  else if (index > axis.count - 2) index = axis.count - 2;
-  return { index, fraction: u - index };
-}
-
 /**
  * Whether the summed degree changes inside the range: only under "lower-of-bracketing" truncation, where
  * the field jumps at an epoch such as 2000.0; linear time interpolation cannot follow a jump, so such a
@@ -286,15 +278,21 @@ export function createTotalFieldGrid(model: FieldModel, opts: TotalFieldEvaluato
     }
     while (segment > 0 && timeMs < nodesMs[segment]) segment--;
     while (segment < nodesMs.length - 2 && timeMs > nodesMs[segment + 1]) segment++;
-    const pLat = axisPosition(lat, latDeg);
-    const pLon = axisPosition(lon, lonDeg);
-    const pHeight = axisPosition(height, heightM);
-    const base = pHeight.index * heightStride + pLat.index * latStride + pLon.index;
-    const before = trilinear(grids[segment], base, 1, latStride, heightStride, pLat.fraction, pLon.fraction, pHeight.fraction);
+    const uLat = (latDeg - lat.start) / lat.step;
+    const uLon = (lonDeg - lon.start) / lon.step;
+    const uHeight = (heightM - height.start) / height.step;
+    const iLat = Math.min(Math.floor(uLat), lat.count - 2);
+    const iLon = Math.min(Math.floor(uLon), lon.count - 2);
+    const iHeight = Math.min(Math.floor(uHeight), height.count - 2);
+    const fLat = uLat - iLat;
+    const fLon = uLon - iLon;
+    const fHeight = uHeight - iHeight;
+    const base = iHeight * heightStride + iLat * latStride + iLon;
+    const before = trilinear(grids[segment], base, 1, latStride, heightStride, fLat, fLon, fHeight);
     const t0 = nodesMs[segment];
     const t1 = nodesMs[segment + 1];
     if (t1 === t0) return before;
-    const after = trilinear(grids[segment + 1], base, 1, latStride, heightStride, pLat.fraction, pLon.fraction, pHeight.fraction);
+    const after = trilinear(grids[segment + 1], base, 1, latStride, heightStride, fLat, fLon, fHeight);
     return before + ((timeMs - t0) / (t1 - t0)) * (after - before);
   };
 
