@@ -154,5 +154,16 @@ export function synthesizeFieldAtYear(
   year: number,
 ): FieldVector {
   assertPosition(latitudeDeg, longitudeDeg, heightM);
-  return synthesizeFromCoefficients(coefficientsAtYear(model, year), latitudeDeg, longitudeDeg, heightM);
+  return synthesizeFromCoefficients(cachedCoefficientsAtYear(model, year), latitudeDeg, longitudeDeg, heightM);
+}
+
+/** Last coefficient set per model: readings of one instant (or a run of them) reuse it. */
+const lastCoefficients = new WeakMap<FieldModel, { year: number; coefficients: CoefficientSet }>();
+
+function cachedCoefficientsAtYear(model: FieldModel, year: number): CoefficientSet {
+  const last = lastCoefficients.get(model);
+  if (last && last.year === year) return last.coefficients;
+  const coefficients = coefficientsAtYear(model, year);
+  lastCoefficients.set(model, { year, coefficients });
+  return coefficients;
 }
