@@ -1,0 +1,17 @@
+"use server";
+
+import { redirect } from "next/navigation";
+import { signInWithPassword } from "@/src/server/auth/session";
+import type { ActionState } from "@/src/ui/action-state";
+import { actionErrorState, formFields } from "@/app/_lib/action-errors";
+import { safeNextPath } from "@/app/_lib/safe-next";
+
+export async function signInAction(_prev: ActionState, formData: FormData): Promise<ActionState> {
+  const input = formFields(formData, ["email", "password"] as const);
+  try {
+    await signInWithPassword(input);
+  } catch (err) {
+    return actionErrorState(err);
+  }
+  redirect(safeNextPath(formData.get("next")));
+}
