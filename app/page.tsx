@@ -1,8 +1,7 @@
-export default function HomePage() {
-  return (
-    <main className="mx-auto max-w-2xl p-8">
-      <h1 className="text-2xl font-semibold">Fieldtide</h1>
-      <p className="mt-2 text-ink-600">Ground magnetic survey logs, diurnally corrected.</p>
-    </main>
-  );
+import { redirect } from "next/navigation";
+import { getActor } from "@/src/server/auth/session";
+
+/** "/" sends a signed-in user to their surveys and everyone else to sign in. */
+export default async function HomePage() {
+  redirect((await getActor()) ? "/surveys" : "/sign-in");
 }

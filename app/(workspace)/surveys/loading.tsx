@@ -1,0 +1,5 @@
+import { LoadingBlock } from "@/src/ui/loading-block";
+
+export default function Loading() {
+  return <LoadingBlock />;
+}

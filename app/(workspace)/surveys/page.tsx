@@ -1,0 +1,62 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { requireActor } from "@/src/server/auth/session";
+import { listSurveys } from "@/src/server/surveys/service";
+import { LinkButton } from "@/src/ui/button";
+import { EmptyState } from "@/src/ui/empty-state";
+import { PlusIcon } from "@/src/ui/icons";
+import { PageHeader } from "@/src/ui/page-header";
+import { SurveyList } from "./_components/survey-list";
+
+export const metadata: Metadata = { title: "Surveys" };
+
+export default async function SurveysPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
+  const actor = await requireActor();
+  const includeArchived = (await searchParams).archived === "1";
+  const surveys = await listSurveys(actor, { includeArchived });
+  const archivedCount = surveys.filter((s) => s.archivedAt).length;
+  const newSurveyButton = actor.isAdmin ? (
+    <LinkButton href="/surveys/new" variant="primary">
+      <PlusIcon /> New survey
+    </LinkButton>
+  ) : null;
+
+  return (
+    <>
+      <PageHeader
+        title="Surveys"
+        description={actor.isAdmin ? "Every survey of the organisation." : "The surveys you are a member of."}
+        actions={newSurveyButton}
+      />
+      <div className="mb-4 flex flex-wrap items-center justify-between gap-2 text-sm">
+        <p className="text-ink-600">
+          <span className="num font-medium text-ink-800">{surveys.length}</span> {surveys.length === 1 ? "survey" : "surveys"}
+          {includeArchived ? (
+            <>
+              {" "}
+              (<span className="num">{archivedCount}</span> archived)
+            </>
+          ) : null}
+        </p>
+        <Link
+          href={includeArchived ? "/surveys" : "/surveys?archived=1"}
+          className="rounded-md px-2 py-1 text-tide-700 underline underline-offset-2 hover:text-tide-800"
+        >
+          {includeArchived ? "Hide archived surveys" : "Show archived surveys"}
+        </Link>
+      </div>
+      {surveys.length === 0 ? (
+        <EmptyState
+          title={includeArchived ? "No surveys, archived or not" : "No active surveys"}
+          action={newSurveyButton}
+        >
+          {actor.isAdmin
+            ? "Create the first survey: give it a code, a client and the time zone the crew works in."
+            : "When a survey lead invites you, the invitation arrives by e-mail; follow its link to join. Ask your lead if you expected one."}
+        </EmptyState>
+      ) : (
+        <SurveyList surveys={surveys} />
+      )}
+    </>
+  );
+}
