@@ -163,6 +163,11 @@ export async function acceptInvitation(token: string, input: unknown): Promise<{
 
   await db.transaction(async (trx) => {
     const now = nowIso();
+    if (newUser) {
+      const clash = await trx("users").select("id").where({ email: inv.email }).first();
+      if (clash) throw new ConflictError("An account with this e-mail was just created. Open the link again and use its password.");
+      await trx("users").insert({ id: newUser.id, email: inv.email, name: newUser.name, password_hash: newUser.passwordHash, is_admin: 0, created_at: now, updated_at: now });
+    }
     const spent = await trx("invitations")
       .where({ id: inv.id })
       .whereNull("used_at")
@@ -170,11 +175,6 @@ export async function acceptInvitation(token: string, input: unknown): Promise<{
       .where("expires_at", ">", now)
       .update({ used_at: now, accepted_user_id: userId });
     if (spent === 0) throw new InvalidTokenError("used", "This invitation has already been used. Sign in instead.");
-    if (newUser) {
-      const clash = await trx("users").select("id").where({ email: inv.email }).first();
-      if (clash) throw new ConflictError("An account with this e-mail was just created. Open the link again and use its password.");
-      await trx("users").insert({ id: newUser.id, email: inv.email, name: newUser.name, password_hash: newUser.passwordHash, is_admin: 0, created_at: now, updated_at: now });
-    }
     const member = await trx("survey_members").where({ survey_id: inv.survey_id, user_id: userId }).first();
     if (!member) {
       await trx("survey_members").insert({ survey_id: inv.survey_id, user_id: userId, role: inv.role, joined_at: now });
