@@ -176,8 +176,11 @@ function gridShape(o: TotalFieldEvaluatorOptions, refinement: number): GridShape
   const spacingKm = INITIAL_SPACING_KM / 2 ** refinement;
   const maxAbsLatRad = Math.max(Math.abs(o.minLatDeg), Math.abs(o.maxLatDeg)) * DEG_TO_RAD;
   const kmPerDegLon = Math.max(KM_PER_DEG_LAT * Math.cos(maxAbsLatRad), 1e-3);
+  const lat = makeAxis(o.minLatDeg, o.maxLatDeg, spacingKm / KM_PER_DEG_LAT, DEGENERATE_STEP_DEG);
+  // A one-latitude box at the north pole: put its second node just south, not beyond 90°.
+  if (lat.start + lat.step * (lat.count - 1) > 90) lat.start = 90 - lat.step * (lat.count - 1);
   return {
-    lat: makeAxis(o.minLatDeg, o.maxLatDeg, spacingKm / KM_PER_DEG_LAT, DEGENERATE_STEP_DEG),
+    lat,
     lon: makeAxis(o.minLonDeg, o.maxLonDeg, spacingKm / kmPerDegLon, DEGENERATE_STEP_DEG),
     height: makeAxis(o.minHeightM, o.maxHeightM, INITIAL_HEIGHT_SPACING_M / 2 ** refinement, DEGENERATE_STEP_M),
   };

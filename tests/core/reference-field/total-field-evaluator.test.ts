@@ -107,6 +107,16 @@ describe("total-field evaluator against direct synthesis", () => {
     expect(evaluate(-12.3, 45, 10, t)).toBeCloseTo(synthesizeField(igrf, { latitudeDeg: -12.3, longitudeDeg: 45, heightM: 10, timeMs: t }).totalNt, 9);
   });
 
+  it("handles a one-point box at the north pole (no node beyond 90°)", () => {
+    const t = Date.UTC(2026, 0, 5);
+    const opts = { minTimeMs: t, maxTimeMs: t, minLatDeg: 90, maxLatDeg: 90, minLonDeg: 0, maxLonDeg: 0, minHeightM: 0, maxHeightM: 0 };
+    expect(createTotalFieldGrid(igrf, opts).usesGrid).toBe(true);
+    expect(createTotalFieldEvaluator(igrf, opts)(90, 0, 0, t)).toBeCloseTo(
+      synthesizeField(igrf, { latitudeDeg: 90, longitudeDeg: 0, heightM: 0, timeMs: t }).totalNt,
+      6,
+    );
+  });
+
   it("rejects a box with its minimum above its maximum", () => {
     const opts = { ...box(10, 10, 5, Date.UTC(2026, 0, 1)), minLatDeg: 11 };
     expect(() => createTotalFieldEvaluator(igrf, opts)).toThrow(RangeError);
