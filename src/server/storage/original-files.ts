@@ -101,16 +101,13 @@ export async function stageUpload(source: Readable | AsyncIterable<Uint8Array>, 
       done(null, chunk);
     },
   });
-  const fd = fs.openSync(tempPath, "wx");
   try {
-    await pipeline(source as Readable, meter, fs.createWriteStream("", { fd, autoClose: false }));
-    fs.fsyncSync(fd);
+    // flush: the descriptor is fsync'd before it is closed, so the bytes are on disk when this resolves
+    await pipeline(source as Readable, meter, fs.createWriteStream(tempPath, { flags: "wx", flush: true }));
   } catch (err) {
-    closeQuietly(fd);
     fs.rmSync(tempPath, { force: true });
     throw err;
   }
-  fs.closeSync(fd);
   if (utf8) {
     try {
       utf8Check.decode();
@@ -127,14 +124,6 @@ export async function stageUpload(source: Readable | AsyncIterable<Uint8Array>, 
     looksBinary: sawNul || controlCharShare(head) > 0.01,
     utf8,
   };
-}
-
-function closeQuietly(fd: number): void {
-  try {
-    fs.closeSync(fd);
-  } catch {
-    /* already closed */
-  }
 }
 
 function fsyncDir(dir: string): void {
