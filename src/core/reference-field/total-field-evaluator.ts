@@ -15,7 +15,9 @@
  *  - Space: the grid starts at ~1 km spacing and is halved until the field at the centre of every
  *    checked cell (where trilinear error peaks) agrees with direct synthesis to GRID_TOLERANCE_NT.
  * Readings outside the box or time range fall back to direct synthesis (exact, slower); a time outside
- * the model's validity throws OutsideModelValidityError.
+ * the model's validity throws OutsideModelValidityError. Longitudes are wrapped by 360° into the box, so a
+ * survey across the antimeridian gives a box past 180° (e.g. 179.95° to 180.05°) and readings at −179.97°
+ * still use the grid.
  */
 import { coefficientsAtYear, epochIntervalIndex } from "./coefficients-at-time";
 import { DEG_TO_RAD } from "./constants";
@@ -270,14 +272,18 @@ export function createTotalFieldGrid(model: FieldModel, opts: TotalFieldEvaluato
   const lastMs = nodesMs[nodesMs.length - 1];
   let segment = 0;
 
-  const evaluate: TotalFieldEvaluator = (latDeg, lonDeg, heightM, timeMs) => {
+  const evaluate: TotalFieldEvaluator = (latDeg, lonGivenDeg, heightM, timeMs) => {
+    let lonDeg = lonGivenDeg;
+    if (!(lonDeg >= lon.start && lonDeg <= lonMax)) {
+      lonDeg = lon.start + ((((lonGivenDeg - lon.start) % 360) + 360) % 360); // same meridian, inside the window if it can be
+    }
     if (
       !(latDeg >= lat.start && latDeg <= latMax) ||
       !(lonDeg >= lon.start && lonDeg <= lonMax) ||
       !(heightM >= height.start && heightM <= heightMax) ||
       !(timeMs >= firstMs && timeMs <= lastMs)
     ) {
-      return direct(latDeg, lonDeg, heightM, timeMs);
+      return direct(latDeg, lonGivenDeg, heightM, timeMs);
     }
     while (segment > 0 && timeMs < nodesMs[segment]) segment--;
     while (segment < nodesMs.length - 2 && timeMs > nodesMs[segment + 1]) segment++;

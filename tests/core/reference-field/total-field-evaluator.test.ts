@@ -84,6 +84,28 @@ describe("total-field evaluator against direct synthesis", () => {
     expect(worstDifference(wmmModel(), box(35.0, 139.5, 5, Date.UTC(2027, 1, 20)), 1500, 13)).toBeLessThanOrEqual(TOLERANCE_NT);
   });
 
+  it("wraps longitudes into a box past 180° (survey across the antimeridian, readings on both sides)", () => {
+    const day = Date.UTC(2026, 7, 3);
+    const opts = { ...box(-17.0, 179.97, 5, day) }; // 179.97° to ~180.02°
+    const grid = createTotalFieldGrid(igrf, opts);
+    expect(grid.usesGrid).toBe(true);
+    const random = sequence(17);
+    let worst = 0;
+    for (let i = 0; i < 800; i++) {
+      const latitudeDeg = opts.minLatDeg + random() * (opts.maxLatDeg - opts.minLatDeg);
+      const east = opts.minLonDeg + random() * (opts.maxLonDeg - opts.minLonDeg);
+      const longitudeDeg = east > 180 ? east - 360 : east; // as a GPS writes it
+      const timeMs = day + random() * DAY_MS;
+      const direct = synthesizeField(igrf, { latitudeDeg, longitudeDeg, heightM: 100, timeMs }).totalNt;
+      worst = Math.max(worst, Math.abs(grid.evaluate(latitudeDeg, longitudeDeg, 100, timeMs) - direct));
+    }
+    expect(worst).toBeLessThanOrEqual(TOLERANCE_NT);
+    // −179.99° is read from the grid at 180.01° (a direct synthesis would differ by the ~1e-4 nT grid error).
+    const lat = opts.minLatDeg + 0.013;
+    const t = day + 0.3 * DAY_MS;
+    expect(Math.abs(grid.evaluate(lat, -179.99, 100, t) - grid.evaluate(lat, 180.01, 100, t))).toBeLessThan(1e-9);
+  });
+
   it("falls back to exact synthesis for readings outside the box or time range", () => {
     const opts = box(50.9, 7.1, 5, Date.UTC(2026, 4, 11));
     const evaluate = createTotalFieldEvaluator(igrf, opts);
