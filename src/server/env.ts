@@ -10,7 +10,7 @@ import { z } from "zod";
 const EnvSchema = z.object({
   DATABASE_FILE: z.string().min(1).default("data/fieldtide.sqlite"),
   SMTP_URL: z.url({ protocol: /^smtps?$/ }).default("smtp://127.0.0.1:2525"),
-  FAKE_SMTP: z.enum(["0", "1", ""]).default("0"),
+  FAKE_SMTP: z.string().optional(), // "1" turns it on
   APP_URL: z.url({ protocol: /^https?$/ }).default("http://localhost:3000"),
   MAIL_FROM: z.string().min(3).default("Fieldtide <no-reply@fieldtide.invalid>"),
   SESSION_TTL_HOURS: z.coerce.number().positive().max(24 * 366).default(168),
