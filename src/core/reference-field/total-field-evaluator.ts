@@ -12,8 +12,9 @@
  *    at the range ends, every 1 January and every model epoch inside the range. The total field is the
  *    norm of that vector; nodes at most MAX_TIME_NODE_SPACING_MS apart keep its curvature error below
  *    ~1e-3 nT (change of ≤ ~12 nT in 30 days: 12² / (8 · 20 000 nT)).
- *  - Space: the grid starts at ~1 km spacing and is halved until the field at the centre of every
- *    checked cell (where trilinear error peaks) agrees with direct synthesis to GRID_TOLERANCE_NT.
+ *  - Space: the grid starts at ~8 km (4 km in height) spacing and is halved until, at the edge
+ *    midpoints, face centres and centre of up to 200 cells spread over it, trilinear interpolation
+ *    agrees with direct synthesis to GRID_TOLERANCE_NT.
  * Readings outside the box or time range fall back to direct synthesis (exact, slower); a time outside
  * the model's validity throws OutsideModelValidityError. Longitudes are wrapped by 360° into the box, so a
  * survey across the antimeridian gives a box past 180° (e.g. 179.95° to 180.05°) and readings at −179.97°
@@ -46,24 +47,24 @@ export interface TotalFieldGrid {
   lonNodeCount: number;
   heightNodeCount: number;
   timeNodesMs: readonly number[];
-  /** Largest |grid − direct| seen at the checked cell centres, nT. */
+  /** Largest |grid − direct| seen at the probe points of the checked cells, nT. */
   checkedErrorNt: number;
   usesGrid: boolean;
 }
 
-/** Worst disagreement with direct synthesis accepted at a checked cell centre, nT. */
+/** Worst disagreement with direct synthesis accepted at a probe point, nT. */
 export const GRID_TOLERANCE_NT = 0.002;
 /** Longest time between nodes, ms (30 days). */
 export const MAX_TIME_NODE_SPACING_MS = 30 * 86_400_000;
 /** Starting horizontal node spacing, km, and vertical spacing, m. */
-const INITIAL_SPACING_KM = 1;
-const INITIAL_HEIGHT_SPACING_M = 500;
+const INITIAL_SPACING_KM = 8;
+const INITIAL_HEIGHT_SPACING_M = 4000;
 /** Grid node budget per time node; beyond it the evaluator synthesises every reading directly. */
 const MAX_SPATIAL_NODES = 60_000;
-/** Cell centres checked against direct synthesis at most. */
-const MAX_CHECKED_CELLS = 400;
+/** Cells probed against direct synthesis at most (spread evenly over the grid). */
+const MAX_CHECKED_CELLS = 200;
 /** Refinement rounds (each halves every spacing). */
-const MAX_REFINEMENTS = 5;
+const MAX_REFINEMENTS = 7;
 const KM_PER_DEG_LAT = 111.2;
 /** Spacing used along an axis whose range is empty, so the two nodes stay distinct. */
 const DEGENERATE_STEP_DEG = 1e-6;
@@ -192,12 +193,20 @@ function nodeCount(shape: GridShape): number {
   return shape.lat.count * shape.lon.count * shape.height.count;
 }
 
-/** Largest |trilinear − direct| at the centres of up to MAX_CHECKED_CELLS cells spread over the grid. */
-function checkCellCentres(coefficients: CoefficientSet, shape: GridShape, values: Float64Array): number {
+/**
+ * Probe points of a cell, as fractions along (lat, lon, height): every mix of 0 and ½ but the corner.
+ * Trilinear error of a quadratic field is Σ cᵢ xᵢ(1 − xᵢ), whose largest magnitude is at such a point
+ * (edge midpoints, face centres, the centre: terms of opposite sign can cancel at the centre alone).
+ */
+const PROBES: ReadonlyArray<readonly [number, number, number]> = [
+  [0.5, 0, 0], [0, 0.5, 0], [0, 0, 0.5], [0.5, 0.5, 0], [0.5, 0, 0.5], [0, 0.5, 0.5], [0.5, 0.5, 0.5],
+];
+
+/** Largest |trilinear − direct| at the probe points of up to MAX_CHECKED_CELLS cells spread over the grid. */
+function checkCells(coefficients: CoefficientSet, shape: GridShape, values: Float64Array): number {
   const { lat, lon, height } = shape;
   const cells = (lat.count - 1) * (lon.count - 1) * (height.count - 1);
   const stride = Math.max(1, Math.floor(cells / MAX_CHECKED_CELLS));
-  const lonStride = 1;
   const latStride = lon.count;
   const heightStride = lon.count * lat.count;
   let worst = 0;
@@ -206,14 +215,16 @@ function checkCellCentres(coefficients: CoefficientSet, shape: GridShape, values
     const ilat = Math.floor(c / (lon.count - 1)) % (lat.count - 1);
     const ih = Math.floor(c / ((lon.count - 1) * (lat.count - 1)));
     const base = ih * heightStride + ilat * latStride + ilon;
-    const gridded = trilinear(values, base, lonStride, latStride, heightStride, 0.5, 0.5, 0.5);
-    const direct = synthesizeFromCoefficients(
-      coefficients,
-      lat.start + (ilat + 0.5) * lat.step,
-      lon.start + (ilon + 0.5) * lon.step,
-      height.start + (ih + 0.5) * height.step,
-    ).totalNt;
-    worst = Math.max(worst, Math.abs(gridded - direct));
+    for (const [fLat, fLon, fHeight] of PROBES) {
+      const gridded = trilinear(values, base, 1, latStride, heightStride, fLat, fLon, fHeight);
+      const direct = synthesizeFromCoefficients(
+        coefficients,
+        lat.start + (ilat + fLat) * lat.step,
+        lon.start + (ilon + fLon) * lon.step,
+        height.start + (ih + fHeight) * height.step,
+      ).totalNt;
+      worst = Math.max(worst, Math.abs(gridded - direct));
+    }
   };
   for (let c = 0; c < cells; c += stride) visit(c);
   visit(cells - 1);
@@ -248,16 +259,18 @@ export function createTotalFieldGrid(model: FieldModel, opts: TotalFieldEvaluato
   let shape: GridShape | null = null;
   let firstValues: Float64Array | null = null;
   let checkedErrorNt = Infinity;
-  for (let refinement = 0; refinement <= MAX_REFINEMENTS; refinement++) {
+  for (let refinement = 0; refinement <= MAX_REFINEMENTS; ) {
     const candidate = gridShape(opts, refinement);
     if (nodeCount(candidate) * nodesMs.length > MAX_SPATIAL_NODES * 4 || nodeCount(candidate) > MAX_SPATIAL_NODES) break;
     const values = fillGrid(coefficientsAtNodes[0], candidate.lat, candidate.lon, candidate.height);
-    checkedErrorNt = checkCellCentres(coefficientsAtNodes[0], candidate, values);
+    checkedErrorNt = checkCells(coefficientsAtNodes[0], candidate, values);
     if (checkedErrorNt <= GRID_TOLERANCE_NT) {
       shape = candidate;
       firstValues = values;
       break;
     }
+    // Trilinear error falls with the square of the spacing: skip straight to the halving that should pass.
+    refinement += Math.max(1, Math.ceil(Math.log2(Math.sqrt(checkedErrorNt / GRID_TOLERANCE_NT))));
   }
   if (!shape || !firstValues) return noGrid(nodesMs);
 
