@@ -27,7 +27,7 @@ export function wmmModel(): FieldModel {
   return modelFromWmmJson(JSON.parse(fs.readFileSync(WMM_FILE, "utf8")));
 }
 
-/** Rows of a CSV with a header, every field parsed as a number except those named in `text`. */
+/** Rows of a CSV with a header, as text keyed by column name. */
 export function readCsv(file: string): Record<string, string>[] {
   const parsed = Papa.parse<Record<string, string>>(fs.readFileSync(file, "utf8"), {
     header: true,
