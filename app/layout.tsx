@@ -1,5 +1,6 @@
 import type { Metadata } from "next";
 import localFont from "next/font/local";
+import { headers } from "next/headers";
 import "./globals.css";
 
 const inter = localFont({
@@ -18,7 +19,10 @@ export const metadata: Metadata = {
   description: "Diurnal and main-field correction of ground magnetic survey logs.",
 };
 
-export default function RootLayout({ children }: { children: React.ReactNode }) {
+export default async function RootLayout({ children }: { children: React.ReactNode }) {
+  // Reading the request headers renders every page per request, so Next can put the
+  // per-request CSP nonce (proxy.ts) on its inline scripts.
+  await headers();
   return (
     <html lang="en" className={inter.variable}>
       <body className="min-h-screen font-sans antialiased">{children}</body>
