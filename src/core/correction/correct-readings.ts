@@ -157,8 +157,6 @@ export function createCorrector(base: BaseSeries, reference: ReferenceFieldEvalu
           }
           refNt = reference.totalNt(la, lo, h, t);
         }
-      } else if (la !== la || lo !== lo) {
-        flags |= CorrectionFlag.noPosition;
       }
 
       // diurnal

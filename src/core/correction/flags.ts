@@ -8,7 +8,7 @@ export const CorrectionFlag = {
   outsideModelValidity: 4,
   /** Another rover reading has the same time. */
   duplicateTime: 8,
-  /** No latitude/longitude: no reference/residual. */
+  /** No latitude/longitude while a reference model is in use: no reference/residual. */
   noPosition: 16,
   /** This reading is itself a base occupation of a looped survey. */
   baseOccupation: 32,
