@@ -57,15 +57,15 @@ export function getEnv(): Env {
   const e = parsed.data;
   const root = projectRoot();
   cached = {
-    databaseFile: path.resolve(root, e.DATABASE_FILE),
+    databaseFile: path.resolve(/*turbopackIgnore: true*/ root, e.DATABASE_FILE),
     smtpUrl: e.SMTP_URL,
     fakeSmtp: e.FAKE_SMTP === "1",
     appUrl: e.APP_URL.replace(/\/+$/, ""),
     appOrigin: new URL(e.APP_URL).origin,
     mailFrom: e.MAIL_FROM,
     sessionTtlHours: e.SESSION_TTL_HOURS,
-    igrfFile: e.FIELDTIDE_IGRF_FILE ? path.resolve(root, e.FIELDTIDE_IGRF_FILE) : undefined,
-    uploadDir: path.resolve(root, e.UPLOAD_DIR),
+    igrfFile: e.FIELDTIDE_IGRF_FILE ? path.resolve(/*turbopackIgnore: true*/ root, e.FIELDTIDE_IGRF_FILE) : undefined,
+    uploadDir: path.resolve(/*turbopackIgnore: true*/ root, e.UPLOAD_DIR),
   };
   return cached;
 }

@@ -107,8 +107,9 @@ function collectBodies(raw: Buffer, out: { text: string | null; html: string | n
     return;
   }
   if (disposition === "attachment") return;
-  if (type === "text/plain" && out.text === null) out.text = decodeCharset(decodeBody(part), params.get("charset"));
-  else if (type === "text/html" && out.html === null) out.html = decodeCharset(decodeBody(part), params.get("charset"));
+  const read = () => decodeCharset(decodeBody(part), params.get("charset")).replace(/\r\n/g, "\n");
+  if (type === "text/plain" && out.text === null) out.text = read();
+  else if (type === "text/html" && out.html === null) out.html = read();
 }
 
 export function parseMail(raw: Buffer): ParsedMail {
