@@ -75,3 +75,27 @@ describe("sessions", () => {
     expect(cookie).toMatch(/Max-Age=7200/);
   });
 });
+
+describe("lucia shares Knex's connection", () => {
+  it("a sign-in during an open write transaction waits for it instead of stalling on a lock", async () => {
+    const user = await makeUser();
+    let release!: () => void;
+    const gate = new Promise<void>((r) => (release = r));
+    let committed = false;
+    const trx = getDb().transaction(async (t) => {
+      await t("users").where({ id: user.userId }).update({ updated_at: new Date().toISOString() });
+      await gate;
+      committed = true;
+    });
+    await new Promise((r) => setTimeout(r, 20)); // the transaction now holds the write lock
+    const started = Date.now();
+    const sessionPromise = accounts.createSession(user.userId).then((s) => ({ s, committedFirst: committed }));
+    setTimeout(release, 50);
+    await trx;
+    const { s, committedFirst } = await sessionPromise;
+    expect(committedFirst).toBe(true);
+    // Far below the 5000 ms busy timeout a second connection would have waited.
+    expect(Date.now() - started).toBeLessThan(1500);
+    expect(await accounts.validateSessionId(s.id)).toMatchObject({ userId: user.userId });
+  });
+});

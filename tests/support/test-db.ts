@@ -22,9 +22,7 @@ export function setupTestDatabase(extraEnv: Record<string, string> = {}): TestDa
     await migrateToLatest(getDb());
   });
   afterAll(async () => {
-    const { closeLucia } = await import("@/src/server/auth/lucia");
     const { closeDb } = await import("@/src/server/db/client");
-    closeLucia();
     await closeDb();
     fs.rmSync(dir, { recursive: true, force: true });
   });

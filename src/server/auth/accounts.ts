@@ -7,7 +7,7 @@ import type { Cookie } from "lucia";
 import { getDb } from "../db/client";
 import { ValidationError, parseInput } from "../errors";
 import { actorFromRow, type Actor, type UserRow } from "./actor";
-import { getLucia } from "./lucia";
+import { luciaCookies, withLucia } from "./lucia";
 import { hashPassword, verifyPassword } from "./password";
 import { SignInSchema } from "./schema";
 
@@ -37,7 +37,7 @@ export async function authenticateInput(input: unknown): Promise<Actor> {
 }
 
 export async function createSession(userId: string): Promise<{ id: string; expiresAt: Date }> {
-  const session = await getLucia().createSession(userId, {});
+  const session = await withLucia((lucia) => lucia.createSession(userId, {}));
   return { id: session.id, expiresAt: session.expiresAt };
 }
 
@@ -46,7 +46,7 @@ export type SessionCheck = { actor: Actor; sessionId: string; expiresAt: Date; f
 /** Full result of a session check; `fresh` means the expiry was just extended (re-send the cookie). */
 export async function checkSession(sessionId: string): Promise<SessionCheck | null> {
   if (!sessionId) return null;
-  const { session, user } = await getLucia().validateSession(sessionId);
+  const { session, user } = await withLucia((lucia) => lucia.validateSession(sessionId));
   if (!session) return null;
   return {
     actor: { userId: user.id, email: user.email, name: user.name, isAdmin: user.isAdmin },
@@ -61,22 +61,22 @@ export async function validateSessionId(sessionId: string): Promise<Actor | null
 }
 
 export async function invalidateSession(sessionId: string): Promise<void> {
-  await getLucia().invalidateSession(sessionId);
+  await withLucia((lucia) => lucia.invalidateSession(sessionId));
 }
 
 export async function invalidateUserSessions(userId: string): Promise<void> {
-  await getLucia().invalidateUserSessions(userId);
+  await withLucia((lucia) => lucia.invalidateUserSessions(userId));
 }
 
 export function sessionCookie(sessionId: string): Cookie {
-  return getLucia().createSessionCookie(sessionId);
+  return luciaCookies().createSessionCookie(sessionId);
 }
 
 export function blankSessionCookie(): Cookie {
-  return getLucia().createBlankSessionCookie();
+  return luciaCookies().createBlankSessionCookie();
 }
 
 /** Session id from a Cookie request header, or null. */
 export function readSessionIdFromHeader(cookieHeader: string | null): string | null {
-  return cookieHeader ? getLucia().readSessionCookie(cookieHeader) : null;
+  return cookieHeader ? luciaCookies().readSessionCookie(cookieHeader) : null;
 }

@@ -1,30 +1,26 @@
 import "server-only";
 /**
- * The only module that touches lucia. Lucia's SQLite adapter gets its own better-sqlite3
- * connection on DATABASE_FILE with the same pragmas as Knex's (WAL, foreign keys, busy timeout).
- * Knex keeps its single pooled connection; WAL lets both read concurrently.
- * Rule: never call lucia while a Knex write transaction is open (the adapter is synchronous
- * and would wait on the lock the transaction holds); write to `sessions` through the
- * transaction instead (see password-reset.ts).
+ * The only module that touches lucia. Lucia's BetterSqlite3Adapter runs on Knex's own pooled
+ * better-sqlite3 connection (one connection, pragmas set by the pool's afterCreate). Each lucia
+ * call holds that connection exclusively for its duration (withLucia), so it queues behind an
+ * open Knex transaction instead of interleaving with it or waiting on a lock from a second
+ * connection. Rule: never call withLucia inside a Knex transaction (it would wait for the
+ * connection the transaction holds); write `sessions` through the transaction instead.
  */
-import Database from "better-sqlite3";
+import type { Database } from "better-sqlite3";
 import { BetterSqlite3Adapter } from "@lucia-auth/adapter-sqlite";
-import { Lucia, TimeSpan } from "lucia";
-import fs from "node:fs";
-import path from "node:path";
+import { Lucia, TimeSpan, type Adapter } from "lucia";
+import { getDb } from "../db/client";
 import { getEnv } from "../env";
-import { applyPragmas } from "../db/pragmas";
 
 export const SESSION_COOKIE_NAME = "fieldtide_session";
+const TABLES = { user: "users", session: "sessions" };
 
 type DatabaseUserAttributes = { email: string; name: string; is_admin: number };
 
-function buildLucia(file: string) {
-  fs.mkdirSync(path.dirname(file), { recursive: true });
-  const sqlite = new Database(file);
-  applyPragmas(sqlite);
+function buildLucia(adapter: Adapter) {
   const env = getEnv();
-  const lucia = new Lucia(new BetterSqlite3Adapter(sqlite, { user: "users", session: "sessions" }), {
+  return new Lucia(adapter, {
     sessionExpiresIn: new TimeSpan(env.sessionTtlHours, "h"),
     sessionCookie: {
       name: SESSION_COOKIE_NAME,
@@ -37,10 +33,9 @@ function buildLucia(file: string) {
       isAdmin: attrs.is_admin === 1,
     }),
   });
-  return { lucia, sqlite };
 }
 
-type AppLucia = ReturnType<typeof buildLucia>["lucia"];
+type AppLucia = ReturnType<typeof buildLucia>;
 
 declare module "lucia" {
   interface Register {
@@ -49,22 +44,45 @@ declare module "lucia" {
   }
 }
 
-type Cached = { file: string } & ReturnType<typeof buildLucia>;
-const globalForLucia = globalThis as unknown as { __fieldtideLucia?: Cached };
+/** Knex's pool, as far as this module uses it (knex's client API, not in its public typings). */
+type PoolClient = { acquireConnection(): Promise<Database>; releaseConnection(conn: Database): Promise<unknown> };
 
-export function getLucia(): AppLucia {
-  const file = getEnv().databaseFile;
-  const cached = globalForLucia.__fieldtideLucia;
-  if (cached && cached.file === file) return cached.lucia;
-  if (cached) cached.sqlite.close();
-  const built = buildLucia(file);
-  globalForLucia.__fieldtideLucia = { file, ...built };
-  return built.lucia;
+const byConnection = new WeakMap<Database, AppLucia>();
+
+/** Runs `fn` with lucia on Knex's connection, held for the duration of the call. */
+export async function withLucia<T>(fn: (lucia: AppLucia) => Promise<T>): Promise<T> {
+  const client = getDb().client as unknown as PoolClient;
+  const conn = await client.acquireConnection();
+  try {
+    let lucia = byConnection.get(conn);
+    if (!lucia) {
+      lucia = buildLucia(new BetterSqlite3Adapter(conn, TABLES));
+      byConnection.set(conn, lucia);
+    }
+    return await fn(lucia);
+  } finally {
+    await client.releaseConnection(conn);
+  }
 }
 
-/** Closes lucia's connection (tests). */
-export function closeLucia(): void {
-  const cached = globalForLucia.__fieldtideLucia;
-  globalForLucia.__fieldtideLucia = undefined;
-  cached?.sqlite.close();
+function noDatabase(): never {
+  throw new Error("cookie-only lucia instance has no database; use withLucia");
+}
+
+const cookieOnlyAdapter: Adapter = {
+  getSessionAndUser: noDatabase,
+  getUserSessions: noDatabase,
+  setSession: noDatabase,
+  updateSessionExpiration: noDatabase,
+  deleteSession: noDatabase,
+  deleteUserSessions: noDatabase,
+  deleteExpiredSessions: noDatabase,
+};
+
+let cookieLucia: AppLucia | null = null;
+
+/** Lucia for cookie building and parsing only (no database access). */
+export function luciaCookies(): Pick<AppLucia, "createSessionCookie" | "createBlankSessionCookie" | "readSessionCookie"> {
+  cookieLucia ??= buildLucia(cookieOnlyAdapter);
+  return cookieLucia;
 }
