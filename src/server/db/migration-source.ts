@@ -5,12 +5,14 @@
 import type { Knex } from "knex";
 import * as m0001 from "@/migrations/0001_foundation";
 import * as m0002 from "@/migrations/0002_field_logs";
+import * as m0003 from "@/migrations/0003_day_workspace";
 
 type Migration = { up(knex: Knex): Promise<void>; down(knex: Knex): Promise<void> };
 
 const MIGRATIONS: ReadonlyArray<readonly [string, Migration]> = [
   ["0001_foundation", m0001],
   ["0002_field_logs", m0002],
+  ["0003_day_workspace", m0003],
 ];
 
 export const MIGRATION_NAMES: readonly string[] = MIGRATIONS.map(([name]) => name);
