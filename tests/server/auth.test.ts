@@ -58,6 +58,14 @@ describe("sessions", () => {
     expect(await getDb()("sessions").where({ id: session.id }).first()).toBeUndefined();
   });
 
+  it("sweeps expired sessions of other users when a new session starts", async () => {
+    const [a, b] = [await makeUser(), await makeUser()];
+    const old = await accounts.createSession(a.userId);
+    await getDb()("sessions").where({ id: old.id }).update({ expires_at: Math.floor(Date.now() / 1000) - 60 });
+    await accounts.createSession(b.userId);
+    expect(await getDb()("sessions").where({ id: old.id }).first()).toBeUndefined();
+  });
+
   it("rejects unknown ids and ends a session on sign-out", async () => {
     const user = await makeUser();
     expect(await accounts.validateSessionId("no-such-session")).toBeNull();

@@ -36,8 +36,12 @@ export async function authenticateInput(input: unknown): Promise<Actor> {
   return actor;
 }
 
+/** New session for the user; expired sessions of everyone are swept at the same time. */
 export async function createSession(userId: string): Promise<{ id: string; expiresAt: Date }> {
-  const session = await withLucia((lucia) => lucia.createSession(userId, {}));
+  const session = await withLucia(async (lucia) => {
+    await lucia.deleteExpiredSessions();
+    return lucia.createSession(userId, {});
+  });
   return { id: session.id, expiresAt: session.expiresAt };
 }
 
