@@ -1,0 +1,20 @@
+import { actorFromRequest } from "@/src/server/api-tokens/request-actor";
+import { getDaySeries } from "@/src/server/days/series";
+import { json, toErrorResponse } from "@/src/server/http/respond";
+
+export const runtime = "nodejs";
+export const dynamic = "force-dynamic";
+
+type Ctx = { params: Promise<{ surveyId: string; date: string }> };
+
+/** GET ?kind=base|rover|corrected&line=&maxPoints=&run= → thinned chart series (≤ maxPoints, default 2 000). */
+export async function GET(request: Request, { params }: Ctx): Promise<Response> {
+  try {
+    const { surveyId, date } = await params;
+    const actor = await actorFromRequest(request);
+    const query = Object.fromEntries(new URL(request.url).searchParams);
+    return json(await getDaySeries(actor, surveyId, date, query));
+  } catch (err) {
+    return toErrorResponse(err);
+  }
+}

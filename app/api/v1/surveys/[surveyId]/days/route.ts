@@ -1,0 +1,19 @@
+import { actorFromRequest } from "@/src/server/api-tokens/request-actor";
+import { listDays } from "@/src/server/days/service";
+import { json, toErrorResponse } from "@/src/server/http/respond";
+
+export const runtime = "nodejs";
+export const dynamic = "force-dynamic";
+
+type Ctx = { params: Promise<{ surveyId: string }> };
+
+/** GET → { days: DaySummary[] } newest first. */
+export async function GET(request: Request, { params }: Ctx): Promise<Response> {
+  try {
+    const { surveyId } = await params;
+    const actor = await actorFromRequest(request);
+    return json({ days: await listDays(actor, surveyId) });
+  } catch (err) {
+    return toErrorResponse(err);
+  }
+}
