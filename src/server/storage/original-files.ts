@@ -13,8 +13,9 @@ import { Transform, type Readable } from "node:stream";
 import { getEnv } from "../env";
 import { FileTooLargeError } from "./errors";
 
-/** Largest original accepted: 200 MiB. */
-export const MAX_UPLOAD_BYTES = 200 * 1024 * 1024;
+import { MAX_UPLOAD_BYTES } from "./limits";
+
+export { MAX_UPLOAD_BYTES } from "./limits";
 /** Bytes kept from the start of a file for sniffing (binary check, header line). */
 const HEAD_BYTES = 64 * 1024;
 const KEY_RE = /^[0-9a-f-]{36}$/;
