@@ -14,6 +14,7 @@ export function TopBar({ actor }: { actor: Actor }) {
         <nav aria-label="Main" className="order-3 flex w-full gap-1 sm:order-none sm:w-auto">
           <NavLink href="/surveys">Surveys</NavLink>
           {actor.isAdmin ? <NavLink href="/admin/mailbox">Mailbox</NavLink> : null}
+          <NavLink href="/profile">Profile</NavLink>
         </nav>
         <div className="ml-auto flex items-center gap-3">
           <div className="text-right leading-tight">
