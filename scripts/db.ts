@@ -1,5 +1,6 @@
 /**
- * Database chores: `tsx scripts/db.ts migrate|seed|reset|status`.
+ * Database chores: `tsx scripts/db.ts migrate|seed [--replace]|reset|status`.
+ * `seed` leaves an already seeded demo as it is; `--replace` rebuilds the demo rows.
  * Uses the same migration source and database file (DATABASE_FILE) as the app.
  */
 import fs from "node:fs";
@@ -8,7 +9,7 @@ import { createDb } from "../src/server/db/create-db";
 import { migrateToLatest, migrationLevel } from "../src/server/db/migration-source";
 import { seed } from "../seeds/01_demo";
 
-const USAGE = "usage: tsx scripts/db.ts migrate | seed | reset | status";
+const USAGE = "usage: tsx scripts/db.ts migrate | seed [--replace] | reset | status";
 
 async function main(command: string | undefined): Promise<void> {
   if (!command || !["migrate", "seed", "reset", "status"].includes(command)) {
@@ -30,10 +31,12 @@ async function main(command: string | undefined): Promise<void> {
     if (command === "seed" || command === "reset") {
       const level = await migrationLevel(knex);
       if (level.pending > 0) throw new Error(`${level.pending} migration(s) pending; run \`npm run db:migrate\` first`);
-      const r = await seed(knex);
+      const r = await seed(knex, { replace: process.argv.includes("--replace") });
       console.log(
-        `seeded demo data: ${r.users} users, ${r.surveys} surveys, ${r.members} memberships` +
-          (r.replaced ? ` (replaced ${r.replaced} existing demo rows)` : ""),
+        r.kept
+          ? "demo data already present: left as it is (use `seed --replace` to rebuild it)"
+          : `seeded demo data: ${r.users} users, ${r.surveys} surveys, ${r.members} memberships` +
+              (r.replaced ? ` (replaced ${r.replaced} existing demo rows)` : ""),
       );
     }
     const level = await migrationLevel(knex);

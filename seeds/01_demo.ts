@@ -1,24 +1,26 @@
 /**
  * Demo scenario (all invented): the company "Copperwren Geophysics", five users, two active
- * surveys and one archived. Re-running replaces the demo rows cleanly: demo surveys (by code)
- * and demo users (by e-mail) are deleted with everything that hangs off them, then re-inserted.
+ * surveys and one archived. On a database that already holds the demo, seeding leaves it as it
+ * is (nothing a demo user did is lost); with `replace`, demo surveys (by code) and demo users
+ * (by e-mail) are deleted with everything that hangs off them, then re-inserted.
  * Passwords are hashed here, at seed time.
  */
 import { randomUUID } from "node:crypto";
 import type { Knex } from "knex";
 import { hashPassword } from "../src/server/auth/password";
+import { DEMO_SIGN_INS } from "./demo-users";
 
 type Role = "crew" | "processor" | "reviewer" | "lead";
 
-export const DEMO_USERS = [
-  { key: "admin", email: "admin@copperwren.example", password: "fieldtide-admin", name: "Ada Ferrow", isAdmin: true },
-  { key: "lead", email: "lead@copperwren.example", password: "fieldtide-lead", name: "Lewin Marsh", isAdmin: false },
-  { key: "processor", email: "processor@copperwren.example", password: "fieldtide-processor", name: "Priya Lantern", isAdmin: false },
-  { key: "crew", email: "crew@copperwren.example", password: "fieldtide-crew", name: "Tomas Quill", isAdmin: false },
-  { key: "reviewer", email: "reviewer@copperwren.example", password: "fieldtide-reviewer", name: "Rhea Okonjo", isAdmin: false },
-] as const;
+type UserKey = "admin" | "lead" | "processor" | "crew" | "reviewer";
 
-type UserKey = (typeof DEMO_USERS)[number]["key"];
+/** The demo people (seeds/demo-users.ts), keyed by their e-mail's local part. */
+export const DEMO_USERS = DEMO_SIGN_INS.map((u) => ({
+  ...u,
+  key: u.email.split("@")[0] as UserKey,
+  isAdmin: u.email.startsWith("admin@"),
+}));
+
 
 export const DEMO_SURVEYS: ReadonlyArray<{
   code: string;
@@ -71,7 +73,20 @@ export const DEMO_SURVEYS: ReadonlyArray<{
   },
 ];
 
-export async function seed(knex: Knex): Promise<{ users: number; surveys: number; members: number; replaced: number }> {
+export interface SeedResult {
+  users: number;
+  surveys: number;
+  members: number;
+  replaced: number;
+  /** True when the demo was already there and `replace` was not asked for. */
+  kept: boolean;
+}
+
+export async function seed(knex: Knex, opts: { replace?: boolean } = {}): Promise<SeedResult> {
+  if (!opts.replace) {
+    const present = await knex("surveys").whereIn("code", DEMO_SURVEYS.map((s) => s.code)).count({ n: "*" }).first();
+    if (Number(present?.n ?? 0) > 0) return { users: 0, surveys: 0, members: 0, replaced: 0, kept: true };
+  }
   const hashes = await Promise.all(DEMO_USERS.map((u) => hashPassword(u.password)));
   return knex.transaction(async (trx) => {
     const now = new Date().toISOString();
@@ -114,6 +129,6 @@ export async function seed(knex: Knex): Promise<{ users: number; surveys: number
         members += 1;
       }
     }
-    return { users: DEMO_USERS.length, surveys: DEMO_SURVEYS.length, members, replaced: replacedSurveys + replacedUsers };
+    return { users: DEMO_USERS.length, surveys: DEMO_SURVEYS.length, members, replaced: replacedSurveys + replacedUsers, kept: false };
   });
 }

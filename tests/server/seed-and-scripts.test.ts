@@ -22,10 +22,12 @@ const DEMO = [
 ] as const;
 
 describe("demo seed", () => {
-  it("creates exactly the contract's demo scenario, and re-running replaces it cleanly", async () => {
-    await seed(getDb());
+  it("creates exactly the contract's demo scenario; re-running keeps it, `replace` rebuilds it cleanly", async () => {
+    expect((await seed(getDb())).kept).toBe(false);
     const firstIds = (await getDb()("users").select("id")).map((r) => r.id);
-    await seed(getDb());
+    expect((await seed(getDb())).kept).toBe(true);
+    expect((await getDb()("users").select("id")).map((r) => r.id)).toEqual(firstIds);
+    await seed(getDb(), { replace: true });
     expect(await getDb()("users").count({ n: "*" }).first()).toEqual({ n: 5 });
     expect(await getDb()("surveys").count({ n: "*" }).first()).toEqual({ n: 3 });
     expect((await getDb()("users").select("id")).map((r) => r.id)).not.toEqual(firstIds);
@@ -66,6 +68,8 @@ describe("scripts/db.ts", () => {
     expect(stdout).toMatch(/0 pending/);
     const again = await run(tsx, ["scripts/db.ts", "migrate"], { env });
     expect(again.stdout).toContain("already up to date");
+    const reseed = await run(tsx, ["scripts/db.ts", "seed"], { env });
+    expect(reseed.stdout).toContain("demo data already present: left as it is");
     await expect(run(tsx, ["scripts/db.ts", "explode"], { env })).rejects.toMatchObject({ code: 2 });
   }, 60_000);
 });
