@@ -50,6 +50,12 @@ export class AtomicFileWriter {
     this.fd = fs.openSync(this.temporary, "w");
   }
 
+  /** Raw bytes, written in order after any pending text. */
+  writeBytes(bytes: Uint8Array): void {
+    this.flush();
+    if (this.fd !== null) fs.writeSync(this.fd, bytes);
+  }
+
   write(text: string): void {
     this.pending.push(text);
     this.pendingChars += text.length;
@@ -74,5 +80,127 @@ export class AtomicFileWriter {
     if (this.fd !== null) fs.closeSync(this.fd);
     this.fd = null;
     fs.rmSync(this.temporary, { force: true });
+  }
+}
+
+const MS_PER_DAY = 86_400_000;
+const C_ZERO = 48;
+const C_MINUS = 45;
+const C_DOT = 46;
+const INT32_LIMIT = 2_147_483_647;
+
+/**
+ * CSV rows straight into a byte buffer: numbers, ISO times and cells are written as ASCII digits
+ * without building strings, so a million-row output makes no garbage. Full buffers go to `sink`
+ * (which must consume the bytes before returning; the buffer is reused).
+ * Numbers: same rounding as createFixedFormatter; NaN writes nothing (an empty cell).
+ */
+export class CsvByteWriter {
+  private buf: Buffer;
+  private pos = 0;
+  private dayCached = NaN;
+  private dayPrefix = Buffer.alloc(11);
+  private readonly textCache = new Map<string, Buffer>();
+
+  constructor(private readonly sink: (bytes: Uint8Array) => void, capacity = 1 << 22) {
+    this.buf = Buffer.allocUnsafe(capacity);
+  }
+
+  /** Make room for n more bytes. */
+  private room(n: number): void {
+    if (this.pos + n > this.buf.length) {
+      this.flush();
+      if (n > this.buf.length) this.buf = Buffer.allocUnsafe(n * 2);
+    }
+  }
+
+  flush(): void {
+    if (this.pos > 0) this.sink(this.buf.subarray(0, this.pos));
+    this.pos = 0;
+  }
+
+  byte(c: number): void {
+    this.room(1);
+    this.buf[this.pos++] = c;
+  }
+
+  /** Text written as is (UTF-8), e.g. a header row. */
+  text(text: string): void {
+    const bytes = Buffer.from(text, "utf8");
+    this.room(bytes.length);
+    this.buf.set(bytes, this.pos);
+    this.pos += bytes.length;
+  }
+
+  /** A text cell, CSV-quoted when needed; encodings of repeated texts are cached. */
+  cell(text: string): void {
+    let bytes = this.textCache.get(text);
+    if (bytes === undefined) {
+      bytes = Buffer.from(csvCell(text), "utf8");
+      if (this.textCache.size < 100_000) this.textCache.set(text, bytes);
+    }
+    this.room(bytes.length);
+    this.buf.set(bytes, this.pos);
+    this.pos += bytes.length;
+  }
+
+  /** Fixed-point number with `decimals` digits after the point (0–9); NaN writes nothing. */
+  fixed(x: number, decimals: number): void {
+    if (x !== x) return;
+    let negative = x < 0;
+    const ax = negative ? -x : x;
+    const scaledFloat = ax * POW10[decimals];
+    if (!(scaledFloat < INT32_LIMIT)) {
+      this.cell(x.toFixed(decimals)); // large magnitudes and ±Infinity: rare, exact
+      return;
+    }
+    let v = Math.round(scaledFloat);
+    if (v === 0) negative = false;
+    let n = v < 10 ? 1 : v < 100 ? 2 : v < 1e3 ? 3 : v < 1e4 ? 4 : v < 1e5 ? 5 : v < 1e6 ? 6 : v < 1e7 ? 7 : v < 1e8 ? 8 : v < 1e9 ? 9 : 10;
+    if (n < decimals + 1) n = decimals + 1;
+    const total = n + (decimals > 0 ? 1 : 0) + (negative ? 1 : 0);
+    this.room(total);
+    const b = this.buf;
+    let p = this.pos + total;
+    for (let k = 0; k < decimals; k++) {
+      const q = (v / 10) | 0;
+      b[--p] = C_ZERO + v - q * 10;
+      v = q;
+    }
+    if (decimals > 0) b[--p] = C_DOT;
+    do {
+      const q = (v / 10) | 0;
+      b[--p] = C_ZERO + v - q * 10;
+      v = q;
+    } while (v > 0);
+    if (negative) b[--p] = C_MINUS;
+    this.pos += total;
+  }
+
+  /** UTC ms as `yyyy-mm-ddThh:mm:ss.sssZ` (years 0–9999). */
+  isoTime(timeMs: number): void {
+    const day = Math.floor(timeMs / MS_PER_DAY);
+    if (day !== this.dayCached) {
+      this.dayCached = day;
+      this.dayPrefix = Buffer.from(new Date(day * MS_PER_DAY).toISOString().slice(0, 11), "latin1");
+    }
+    this.room(24);
+    this.buf.set(this.dayPrefix, this.pos);
+    this.pos += 11;
+    let rest = timeMs - day * MS_PER_DAY;
+    const h = Math.floor(rest / 3_600_000);
+    rest -= h * 3_600_000;
+    const mi = Math.floor(rest / 60_000);
+    rest -= mi * 60_000;
+    const sec = Math.floor(rest / 1000);
+    const ms = rest - sec * 1000;
+    const b = this.buf;
+    let p = this.pos;
+    b[p++] = C_ZERO + Math.floor(h / 10); b[p++] = C_ZERO + (h % 10); b[p++] = 58;
+    b[p++] = C_ZERO + Math.floor(mi / 10); b[p++] = C_ZERO + (mi % 10); b[p++] = 58;
+    b[p++] = C_ZERO + Math.floor(sec / 10); b[p++] = C_ZERO + (sec % 10); b[p++] = C_DOT;
+    b[p++] = C_ZERO + Math.floor(ms / 100); b[p++] = C_ZERO + (Math.floor(ms / 10) % 10); b[p++] = C_ZERO + (ms % 10);
+    b[p++] = 90;
+    this.pos = p;
   }
 }

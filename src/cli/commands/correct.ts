@@ -31,10 +31,9 @@ import {
 import type { LogReadings } from "../../core/logs";
 import { createTotalFieldEvaluator, timeMsFromDecimalYear, type FieldModel } from "../../core/reference-field";
 import { median } from "../../core/series";
-import { createIsoUtcFormatter } from "../../core/time";
 import { loadReferenceModel, ReferenceModelFileError } from "../../lib/reference-model";
 import { CliError } from "../cli-error";
-import { AtomicFileWriter, createFixedFormatter, csvCell } from "../csv-output";
+import { AtomicFileWriter, CsvByteWriter } from "../csv-output";
 import { readLogFile, reportLogProblems } from "../log-file";
 import { parseStringOptions } from "../option-args";
 
@@ -51,7 +50,6 @@ export const OUTPUT_COLUMNS = [
 const NT_DECIMALS = 3;
 const DEG_DECIMALS = 7;
 const HEIGHT_DECIMALS = 3;
-const ROWS_PER_CHUNK = 8192;
 
 const finite = (flag: string) =>
   z
@@ -201,45 +199,40 @@ function timeSpan(times: ArrayLike<number>): string {
 
 /** Write the corrected rows; row i of the output is rover reading i. */
 export function writeCorrectedCsv(out: AtomicFileWriter, rover: LogReadings, result: CorrectionResult): void {
-  const nt = createFixedFormatter(NT_DECIMALS);
-  const deg = createFixedFormatter(DEG_DECIMALS);
-  const hgt = createFixedFormatter(HEIGHT_DECIMALS);
-  const iso = createIsoUtcFormatter();
+  const w = new CsvByteWriter((bytes) => out.writeBytes(bytes));
   const joinFlags = createFlagJoiner("|");
   const { timeMs, fieldNt, latDeg, lonDeg, heightM, line } = rover;
-  const quotedLines = new Map<string, string>();
-  out.write(OUTPUT_COLUMNS.join(",") + "\n");
-  let chunk = "";
+  const { baseNt, diurnalNt, correctedNt, referenceNt, residualNt, flags } = result;
+  const COMMA = 44;
+  w.text(OUTPUT_COLUMNS.join(","));
+  w.byte(10);
   for (let i = 0; i < rover.count; i++) {
-    let lineCell = "";
-    if (line) {
-      const raw = line[i];
-      let q = quotedLines.get(raw);
-      if (q === undefined) {
-        q = csvCell(raw);
-        if (quotedLines.size < 100_000) quotedLines.set(raw, q);
-      }
-      lineCell = q;
-    }
-    chunk +=
-      iso(timeMs[i]) + "," +
-      (latDeg ? deg(latDeg[i]) : "") + "," +
-      (lonDeg ? deg(lonDeg[i]) : "") + "," +
-      (heightM ? hgt(heightM[i]) : "") + "," +
-      lineCell + "," +
-      nt(fieldNt[i]) + "," +
-      nt(result.baseNt[i]) + "," +
-      nt(result.diurnalNt[i]) + "," +
-      nt(result.correctedNt[i]) + "," +
-      nt(result.referenceNt[i]) + "," +
-      nt(result.residualNt[i]) + "," +
-      joinFlags(result.flags[i]) + "\n";
-    if ((i + 1) % ROWS_PER_CHUNK === 0) {
-      out.write(chunk);
-      chunk = "";
-    }
+    w.isoTime(timeMs[i]);
+    w.byte(COMMA);
+    if (latDeg) w.fixed(latDeg[i], DEG_DECIMALS);
+    w.byte(COMMA);
+    if (lonDeg) w.fixed(lonDeg[i], DEG_DECIMALS);
+    w.byte(COMMA);
+    if (heightM) w.fixed(heightM[i], HEIGHT_DECIMALS);
+    w.byte(COMMA);
+    if (line) w.cell(line[i]);
+    w.byte(COMMA);
+    w.fixed(fieldNt[i], NT_DECIMALS);
+    w.byte(COMMA);
+    w.fixed(baseNt[i], NT_DECIMALS);
+    w.byte(COMMA);
+    w.fixed(diurnalNt[i], NT_DECIMALS);
+    w.byte(COMMA);
+    w.fixed(correctedNt[i], NT_DECIMALS);
+    w.byte(COMMA);
+    w.fixed(referenceNt[i], NT_DECIMALS);
+    w.byte(COMMA);
+    w.fixed(residualNt[i], NT_DECIMALS);
+    w.byte(COMMA);
+    if (flags[i]) w.cell(joinFlags(flags[i]));
+    w.byte(10);
   }
-  if (chunk) out.write(chunk);
+  w.flush();
 }
 
 export async function run(argv: string[]): Promise<void> {

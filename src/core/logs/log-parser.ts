@@ -17,6 +17,7 @@ import { createTimestampReader, TimestampError, type TimeReadOptions, type Times
 import { resolveColumnMapping, type ColumnMappingResult, type ExplicitColumnMapping } from "./column-mapping";
 import { detectDelimiter, type Delimiter } from "./delimiter";
 import { LogFormatError } from "./log-format-error";
+import { parseDecimalSpan } from "./decimal-span";
 import { ReadingColumnsBuilder, type LogReadings } from "./reading-columns";
 
 /** Plausible total field at the Earth's surface, nT (IGRF surface range is roughly 22 000–67 000; practice adds margin). */
@@ -92,25 +93,25 @@ function clip(value: string): string {
   return value.length > MAX_VALUE_CHARS ? value.slice(0, MAX_VALUE_CHARS) + "…" : value;
 }
 
-function isBlank(s: string | undefined): boolean {
-  return s === undefined || s.trim().length === 0;
-}
-
-/** Number from a cell; NaN when not a finite number. `decimalComma` also accepts `48310,5`. */
+/** Number from a cell's text; NaN when not a finite number. `decimalComma` also accepts `48310,5`. */
 function readNumber(s: string, decimalComma: boolean): number {
-  const v = +s;
-  if (v === v && s.length > 0) {
-    if (v === 0 && s.trim().length === 0) return NaN;
-    return Number.isFinite(v) ? v : NaN;
-  }
-  if (decimalComma && s.indexOf(",") >= 0) {
-    const w = +s.replace(",", ".");
+  const t = s.trim();
+  if (t.length === 0) return NaN;
+  const v = +t;
+  if (v === v) return Number.isFinite(v) ? v : NaN;
+  if (decimalComma && t.indexOf(",") >= 0) {
+    const w = +t.replace(",", ".");
     return Number.isFinite(w) ? w : NaN;
   }
   return NaN;
 }
 
 const LOOKS_LIKE_DATA = /^[\s\d.,:+\-/TZ]+$/;
+const INITIAL_CELLS = 64;
+
+function isPadding(c: number): boolean {
+  return c === 32 || c === 9 || c === 13 || c === 0xfeff;
+}
 
 export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogStreamSinks = {}): LogStreamParser {
   const range = options.fieldRangeNt ?? DEFAULT_FIELD_RANGE_NT;
@@ -125,7 +126,6 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
   let delimiter: Delimiter = ",";
   let mapping: ColumnMappingResult | null = null;
   let builder: ReadingColumnsBuilder | null = null;
-  let accumulated: ReadingColumnsBuilder | null = null;
   let decimalComma = false;
   let rowCount = 0;
   let rejectedCount = 0;
@@ -134,10 +134,48 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
   const issues: RowProblem<IssueReason>[] = [];
   const warnings: string[] = [];
   let prevTimeMs = NaN;
+  let lastLine = "";
+  let lastStation = "";
 
-  // column indices (−1 absent) and names, set with the header
+  // The current row: cell i is src[cellStart[i], cellEnd[i]), padding already trimmed.
+  let cellStart = new Int32Array(INITIAL_CELLS);
+  let cellEnd = new Int32Array(INITIAL_CELLS);
+  let cellCount = 0;
+
+  // column indices (−1 absent), set with the header
   let iTime = -1, iDate = -1, iField = -1, iLat = -1, iLon = -1, iHeight = -1, iLine = -1, iStation = -1;
   let nameOf: (i: number) => string = () => "";
+
+  function pushCell(src: string, from: number, to: number): void {
+    while (from < to && isPadding(src.charCodeAt(from))) from++;
+    while (to > from && isPadding(src.charCodeAt(to - 1))) to--;
+    if (cellCount === cellStart.length) {
+      const a = new Int32Array(cellCount * 2), b = new Int32Array(cellCount * 2);
+      a.set(cellStart);
+      b.set(cellEnd);
+      cellStart = a;
+      cellEnd = b;
+    }
+    cellStart[cellCount] = from;
+    cellEnd[cellCount] = to;
+    cellCount++;
+  }
+
+  const blank = (i: number) => i >= cellCount || cellStart[i] === cellEnd[i];
+  const textOf = (src: string, i: number) => (i < cellCount ? src.slice(cellStart[i], cellEnd[i]) : "");
+
+  function numberOf(src: string, i: number): number {
+    const v = parseDecimalSpan(src, cellStart[i], cellEnd[i], decimalComma);
+    return v === v ? v : readNumber(src.slice(cellStart[i], cellEnd[i]), decimalComma);
+  }
+
+  /** Interned text of a cell: equal consecutive values share one string. */
+  function internedText(src: string, i: number, last: string): string {
+    if (i >= cellCount) return "";
+    const from = cellStart[i], to = cellEnd[i];
+    if (to - from === last.length && src.startsWith(last, from)) return last;
+    return src.slice(from, to);
+  }
 
   function reject(line: number, col: number, value: string, reason: RejectReason, message: string): void {
     rejectedCount++;
@@ -150,7 +188,7 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
   }
 
   function setHeader(cells: string[], line: number): void {
-    header = cells.map((c) => c.replace(/^\uFEFF/, "").trim());
+    header = cells;
     if (header.every((c) => c.length === 0 || LOOKS_LIKE_DATA.test(c))) {
       throw new LogFormatError(`line ${line} looks like data, not a header: the first line must name the columns (time, field, …)`);
     }
@@ -176,137 +214,175 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
     return new ReadingColumnsBuilder({ position: iLat >= 0, height: iHeight >= 0, line: iLine >= 0, station: iStation >= 0 });
   }
 
-  function processRow(cells: string[], line: number): void {
-    const n = cells.length;
-    if (n === 1 && isBlank(cells[0])) return;
-    const first = cells[0];
-    if (first.length > 0 && first.charCodeAt(0) === 35 /* # */) return;
-    const last = cells[n - 1];
-    if (last.length > 0 && last.charCodeAt(last.length - 1) === 13) cells[n - 1] = last.slice(0, -1);
+  /** The row held in cellStart/cellEnd over src. */
+  function processRow(src: string, line: number): void {
+    let allBlank = true;
+    for (let i = 0; i < cellCount; i++) {
+      if (cellStart[i] !== cellEnd[i]) {
+        allBlank = false;
+        break;
+      }
+    }
+    if (allBlank) return;
+    if (!blank(0) && src.charCodeAt(cellStart[0]) === 35 /* # */) return;
     if (header === null) {
+      const cells: string[] = [];
+      for (let i = 0; i < cellCount; i++) cells.push(textOf(src, i));
       setHeader(cells, line);
       return;
     }
-    if (cells.every(isBlank)) return;
     rowCount++;
 
     // time
     let timeMs: number;
-    const timeText = cells[iTime];
-    if (isBlank(timeText) || (iDate >= 0 && isBlank(cells[iDate]))) {
-      reject(line, isBlank(timeText) ? iTime : iDate, timeText ?? "", "missing_time", "no time");
+    if (blank(iTime) || (iDate >= 0 && blank(iDate))) {
+      const col = blank(iTime) ? iTime : iDate;
+      reject(line, col, textOf(src, col), "missing_time", "no time");
       return;
     }
     try {
       if (iDate >= 0) {
+        const timeText = textOf(src, iTime);
         try {
-          timeMs = reader.parseDateAndTime(cells[iDate], timeText);
-        } catch (e) {
+          timeMs = reader.parseDateAndTime(textOf(src, iDate), timeText);
+        } catch {
           timeMs = reader.parse(timeText); // a time column that already holds the date
-          void e;
         }
       } else {
-        timeMs = reader.parse(timeText);
+        timeMs = reader.parseSpan(src, cellStart[iTime], cellEnd[iTime]);
       }
     } catch (e) {
       if (!(e instanceof TimestampError)) throw e;
-      const shown = iDate >= 0 ? `${cells[iDate]} ${timeText}` : timeText;
+      const shown = iDate >= 0 ? `${textOf(src, iDate)} ${textOf(src, iTime)}` : textOf(src, iTime);
       reject(line, iTime, shown, "impossible_timestamp", e.message);
       return;
     }
 
     // field
-    const fieldText = cells[iField];
-    if (isBlank(fieldText)) {
-      reject(line, iField, fieldText ?? "", "missing_field", "no total-field value");
+    if (blank(iField)) {
+      reject(line, iField, "", "missing_field", "no total-field value");
       return;
     }
-    const fieldNt = readNumber(fieldText, decimalComma);
+    const fieldNt = numberOf(src, iField);
     if (fieldNt !== fieldNt) {
-      reject(line, iField, fieldText, "non_numeric_field", `total field "${clip(fieldText)}" is not a number`);
+      const t = textOf(src, iField);
+      reject(line, iField, t, "non_numeric_field", `total field "${clip(t)}" is not a number`);
       return;
     }
     if (fieldNt < range.minNt || fieldNt > range.maxNt) {
-      reject(line, iField, fieldText, "field_out_of_range", `total field ${fieldNt} nT is outside the plausible ${range.minNt}–${range.maxNt} nT`);
+      reject(line, iField, textOf(src, iField), "field_out_of_range", `total field ${fieldNt} nT is outside the plausible ${range.minNt}–${range.maxNt} nT`);
       return;
     }
 
     // position
     let latDeg = NaN, lonDeg = NaN, heightM = NaN;
     if (iLat >= 0) {
-      const latText = cells[iLat], lonText = cells[iLon];
-      const latEmpty = isBlank(latText), lonEmpty = isBlank(lonText);
+      const latEmpty = blank(iLat), lonEmpty = blank(iLon);
       if (!latEmpty || !lonEmpty) {
-        latDeg = latEmpty ? NaN : readNumber(latText, decimalComma);
-        lonDeg = lonEmpty ? NaN : readNumber(lonText, decimalComma);
+        latDeg = latEmpty ? NaN : numberOf(src, iLat);
+        lonDeg = lonEmpty ? NaN : numberOf(src, iLon);
         if (latDeg !== latDeg) {
-          reject(line, iLat, latText ?? "", "non_numeric_position", `latitude "${clip(latText ?? "")}" is not a number`);
+          const t = textOf(src, iLat);
+          reject(line, iLat, t, "non_numeric_position", `latitude "${clip(t)}" is not a number`);
           return;
         }
         if (lonDeg !== lonDeg) {
-          reject(line, iLon, lonText ?? "", "non_numeric_position", `longitude "${clip(lonText ?? "")}" is not a number`);
+          const t = textOf(src, iLon);
+          reject(line, iLon, t, "non_numeric_position", `longitude "${clip(t)}" is not a number`);
           return;
         }
         if (latDeg < -90 || latDeg > 90) {
-          reject(line, iLat, latText, "latitude_out_of_range", `latitude ${latDeg}° is outside −90…90°`);
+          reject(line, iLat, textOf(src, iLat), "latitude_out_of_range", `latitude ${latDeg}° is outside −90…90°`);
           return;
         }
         if (lonDeg < -180 || lonDeg > 180) {
-          reject(line, iLon, lonText, "longitude_out_of_range", `longitude ${lonDeg}° is outside −180…180°`);
+          reject(line, iLon, textOf(src, iLon), "longitude_out_of_range", `longitude ${lonDeg}° is outside −180…180°`);
           return;
         }
       }
     }
-    if (iHeight >= 0) {
-      const hText = cells[iHeight];
-      if (!isBlank(hText)) {
-        heightM = readNumber(hText, decimalComma);
-        if (heightM !== heightM) {
-          reject(line, iHeight, hText, "non_numeric_height", `height "${clip(hText)}" is not a number`);
-          return;
-        }
+    if (iHeight >= 0 && !blank(iHeight)) {
+      heightM = numberOf(src, iHeight);
+      if (heightM !== heightM) {
+        const t = textOf(src, iHeight);
+        reject(line, iHeight, t, "non_numeric_height", `height "${clip(t)}" is not a number`);
+        return;
       }
     }
 
     if (timeMs < prevTimeMs) {
-      issue(line, iTime, timeText, "time_backwards", `time goes backwards by ${((prevTimeMs - timeMs) / 1000).toFixed(3)} s`);
+      issue(line, iTime, textOf(src, iTime), "time_backwards", `time goes backwards by ${((prevTimeMs - timeMs) / 1000).toFixed(3)} s`);
     } else if (timeMs === prevTimeMs) {
-      issue(line, iTime, timeText, "duplicate_time", "same time as the previous reading");
+      issue(line, iTime, textOf(src, iTime), "duplicate_time", "same time as the previous reading");
     }
     prevTimeMs = timeMs;
-    const lineText = iLine >= 0 ? (cells[iLine] ?? "").trim() : "";
-    const stationText = iStation >= 0 ? (cells[iStation] ?? "").trim() : "";
-    builder!.push(timeMs, fieldNt, latDeg, lonDeg, heightM, lineText, stationText, line);
+    if (iLine >= 0) lastLine = internedText(src, iLine, lastLine);
+    if (iStation >= 0) lastStation = internedText(src, iStation, lastStation);
+    builder!.push(timeMs, fieldNt, latDeg, lonDeg, heightM, lastLine, lastStation, line);
   }
 
-  /** Split complete lines (no trailing newline) and process each row. */
+  /**
+   * Complete lines (no trailing newline). Unquoted delimited text is split here by indexOf over the
+   * block, without a string per cell; a block holding quotes goes through papaparse, whose cells are
+   * joined so the same row code reads them.
+   */
   function processBlock(block: string): void {
     if (block.length === 0) {
       lineNo++; // one empty line
       return;
     }
-    if (delimiter === "whitespace") {
-      let at = 0;
-      while (at <= block.length) {
-        let nl = block.indexOf("\n", at);
-        if (nl < 0) nl = block.length;
-        lineNo++;
-        const text = block.slice(at, nl).trim();
-        if (text.length > 0) processRow(text.split(/\s+/), lineNo);
-        at = nl + 1;
-      }
+    if (delimiter !== "whitespace" && block.indexOf('"') >= 0) {
+      processQuotedBlock(block);
       return;
     }
-    const hasQuotes = block.indexOf('"') >= 0;
+    const whitespace = delimiter === "whitespace";
+    const delim = whitespace ? "" : delimiter;
+    let at = 0;
+    const n = block.length;
+    while (at <= n) {
+      let nl = block.indexOf("\n", at);
+      if (nl < 0) nl = n;
+      lineNo++;
+      cellCount = 0;
+      if (whitespace) {
+        let k = at;
+        while (k < nl) {
+          while (k < nl && isPadding(block.charCodeAt(k))) k++;
+          if (k >= nl) break;
+          const from = k;
+          while (k < nl && !isPadding(block.charCodeAt(k))) k++;
+          pushCell(block, from, k);
+        }
+      } else {
+        let from = at;
+        for (;;) {
+          let k = block.indexOf(delim, from);
+          if (k < 0 || k > nl) k = nl;
+          pushCell(block, from, k);
+          if (k === nl) break;
+          from = k + 1;
+        }
+      }
+      if (cellCount > 0) processRow(block, lineNo);
+      at = nl + 1;
+    }
+  }
+
+  function processQuotedBlock(block: string): void {
     const rows = Papa.parse<string[]>(block, { delimiter, newline: "\n", header: false, skipEmptyLines: false }).data;
     for (let r = 0; r < rows.length; r++) {
       const cells = rows[r];
       lineNo++;
       const line = lineNo;
-      if (hasQuotes) {
-        for (const c of cells) for (let k = c.indexOf("\n"); k >= 0; k = c.indexOf("\n", k + 1)) lineNo++;
+      for (const c of cells) for (let k = c.indexOf("\n"); k >= 0; k = c.indexOf("\n", k + 1)) lineNo++;
+      const joined = cells.join("\u0000");
+      cellCount = 0;
+      let at = 0;
+      for (const c of cells) {
+        pushCell(joined, at, at + c.length);
+        at += c.length + 1;
       }
-      processRow(cells, line);
+      processRow(joined, line);
     }
   }
 
@@ -359,13 +435,13 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
 
   return {
     push(chunk: string): void {
-      pending += chunk;
+      pending = pending.length === 0 ? chunk : pending + chunk;
       cutCompleteLines(false);
     },
     end() {
       cutCompleteLines(true);
       if (header === null) throw new LogFormatError("the log is empty: expected a header row and readings");
-      accumulated = builder;
+      if (rowCount === 0) warnings.push("the log has a header but no readings");
       const summary: LogParseSummary = {
         header,
         delimiter,
@@ -378,8 +454,7 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
         issues,
         warnings,
       };
-      if (rowCount === 0) warnings.push("the log has a header but no readings");
-      return { ...summary, readings: sinks.onBatch ? null : accumulated!.build() };
+      return { ...summary, readings: sinks.onBatch ? null : builder!.build() };
     },
   };
 }

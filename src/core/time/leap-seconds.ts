@@ -26,8 +26,8 @@ const STEP_UTC_MS: readonly number[] = LEAP_DATES_UTC.map(([y, m, d]) => Date.UT
 const STEP_GPS_MS: readonly number[] = STEP_UTC_MS.map((ms, i) => ms + (i + 1) * MS_PER_S);
 
 function countStepsAtOrBefore(steps: readonly number[], ms: number): number {
-  let n = 0;
-  while (n < steps.length && ms >= steps[n]) n++;
+  let n = steps.length;
+  while (n > 0 && ms < steps[n - 1]) n--; // from the latest step: modern times stop at once
   return n;
 }
 

@@ -14,7 +14,7 @@
  *      slow needs clockOffsetS = +2);
  *   4. a GPS-basis time is turned to UTC by subtracting GPS − UTC in force then (./leap-seconds.ts).
  */
-import { assertCivilFields, daysFromCivil } from "./civil";
+import { assertCivilFields, daysFromCivil, daysInMonth } from "./civil";
 import { gpsToUtcMs } from "./leap-seconds";
 import { TimestampError } from "./timestamp-error";
 import { createLocalToUtc, isKnownTimeZone, isUtcZone } from "./zone";
@@ -35,6 +35,8 @@ export interface TimeReadOptions {
 export interface TimestampReader {
   /** One timestamp text → UTC ms; throws TimestampError. */
   parse(text: string): number;
+  /** The timestamp in text[start, end) without slicing it out first; throws TimestampError. */
+  parseSpan(text: string, start: number, end: number): number;
   /** Separate date and time columns → UTC ms; throws TimestampError. */
   parseDateAndTime(dateText: string, timeText: string): number;
 }
@@ -102,46 +104,86 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
 
   function finish(text: string, y: number, mo: number, d: number, h: number, mi: number, s: number, ms: number, off: string | undefined): number {
     assertCivilFields(text, y, mo, d, h, mi, s);
+    return instantOf(y, mo, d, h, mi, s, ms, offsetToMs(text, off));
+  }
+
+  /** Fields already checked → UTC ms (zone or written offset, clock offset, time basis). */
+  function instantOf(y: number, mo: number, d: number, h: number, mi: number, s: number, ms: number, offsetMs: number | null): number {
     const packed = daysFromCivil(y, mo, d) * MS_PER_DAY + ((h * 60 + mi) * 60 + s) * 1000 + ms;
-    const offsetMs = offsetToMs(text, off);
     let t = offsetMs === null ? localToUtc(packed) : packed - offsetMs;
     t += clockOffsetMs;
     if (timeBasis === "gps") t = gpsToUtcMs(t);
     return t;
   }
 
-  /** Fixed layout `yyyy-mm-ddThh:mm:ss[.f…][Z]` (or `/`, or a space for T) read by char codes; NaN if not that layout. */
-  function parseFixedLayout(text: string): number {
-    const n = text.length;
+  /**
+   * Fixed layout `yyyy-mm-ddThh:mm:ss[.f…][Z]` (or `/`, or a space for T) in text[at, end), read by
+   * char codes without slicing; NaN when the span is not that layout or its fields are impossible
+   * (the general path then reads it and reports why).
+   */
+  // Minute cache for the fixed layout: logs run in time order, so consecutive rows share
+  // `yyyy-mm-ddThh:mm`; the zone offset is looked up once per minute (kept only when the offset is the
+  // same at both ends of that minute).
+  let cachedPrefix = "";
+  let cachedZulu = false;
+  let cachedMinuteUtcMs = NaN; // UTC of hh:mm:00 before clock offset and time basis
+
+  function parseFixedLayout(text: string, at: number, end: number): number {
+    const n = end - at;
     if (n < 19) return NaN;
-    const c4 = text.charCodeAt(4);
-    const c10 = text.charCodeAt(10);
-    if ((c4 !== 45 && c4 !== 47) || text.charCodeAt(7) !== c4 || (c10 !== 84 && c10 !== 32)) return NaN;
-    if (text.charCodeAt(13) !== 58 || text.charCodeAt(16) !== 58) return NaN;
-    let end = n;
+    const c4 = text.charCodeAt(at + 4);
+    const c10 = text.charCodeAt(at + 10);
+    if ((c4 !== 45 && c4 !== 47) || text.charCodeAt(at + 7) !== c4 || (c10 !== 84 && c10 !== 32)) return NaN;
+    if (text.charCodeAt(at + 13) !== 58 || text.charCodeAt(at + 16) !== 58) return NaN;
+    let stop = end;
     let zulu = false;
-    if (text.charCodeAt(n - 1) === 90) {
+    if (text.charCodeAt(end - 1) === 90) {
       zulu = true;
-      end = n - 1;
+      stop = end - 1;
     }
-    const y = digits(text, 0, 4), mo = digits(text, 5, 2), d = digits(text, 8, 2);
-    const h = digits(text, 11, 2), mi = digits(text, 14, 2), s = digits(text, 17, 2);
-    if (y < 0 || mo < 0 || d < 0 || h < 0 || mi < 0 || s < 0) return NaN;
+    const s = digits(text, at + 17, 2);
+    if (s < 0 || s > 59) return NaN;
     let ms = 0;
-    if (end > 19) {
-      if (text.charCodeAt(19) !== 46 || end === 20) return NaN;
-      const frac = text.slice(20, end);
-      for (let i = 0; i < frac.length; i++) {
-        const c = frac.charCodeAt(i);
-        if (c < 48 || c > 57) return NaN;
+    if (stop > at + 19) {
+      if (text.charCodeAt(at + 19) !== 46 || stop === at + 20) return NaN;
+      let four = 0;
+      for (let i = at + 20; i < stop; i++) {
+        const c = text.charCodeAt(i) - 48;
+        if (c < 0 || c > 9) return NaN;
+        if (i < at + 24) four = four * 10 + c;
       }
-      ms = fractionToMs(frac);
+      for (let k = stop - (at + 20); k < 4; k++) four *= 10;
+      ms = Math.floor(four / 10) + (four % 10 >= 5 ? 1 : 0);
     }
-    return finish(text, y, mo, d, h, mi, s, ms, zulu ? "Z" : undefined);
+    let minuteUtcMs: number;
+    if (zulu === cachedZulu && text.startsWith(cachedPrefix, at) && cachedPrefix.length === 16) {
+      minuteUtcMs = cachedMinuteUtcMs;
+    } else {
+      const y = digits(text, at, 4), mo = digits(text, at + 5, 2), d = digits(text, at + 8, 2);
+      const h = digits(text, at + 11, 2), mi = digits(text, at + 14, 2);
+      if (y < 0 || mo < 0 || d < 0 || h < 0 || mi < 0) return NaN;
+      if (mo < 1 || mo > 12 || d < 1 || d > daysInMonth(y, mo) || h > 23 || mi > 59) return NaN;
+      const packed = daysFromCivil(y, mo, d) * MS_PER_DAY + (h * 60 + mi) * 60_000;
+      minuteUtcMs = zulu ? packed : localToUtc(packed);
+      const constant = zulu || localToUtc(packed + 59_999) - minuteUtcMs === 59_999;
+      cachedPrefix = constant ? text.slice(at, at + 16) : "";
+      cachedZulu = zulu;
+      cachedMinuteUtcMs = minuteUtcMs;
+      if (!constant) return instantOf(y, mo, d, h, mi, s, ms, zulu ? 0 : null);
+    }
+    let t = minuteUtcMs + s * 1000 + ms + clockOffsetMs;
+    if (timeBasis === "gps") t = gpsToUtcMs(t);
+    return t;
+  }
+
+  /** The timestamp in text[at, end) (a cell of a larger chunk) → UTC ms; throws TimestampError. */
+  function parseSpan(text: string, at: number, end: number): number {
+    const fast = parseFixedLayout(text, at, end);
+    return fast === fast ? fast : parse(text.slice(at, end));
   }
 
   function parse(text: string): number {
-    const fast = parseFixedLayout(text);
+    const fast = parseFixedLayout(text, 0, text.length);
     if (fast === fast) return fast;
     let m = EXTENDED_RE.exec(text);
     if (m) {
@@ -166,7 +208,7 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
     return finish(both, +d[1], +d[2], +d[3], +t[1], +t[2], t[3] ? +t[3] : 0, fractionToMs(t[4]), t[5]);
   }
 
-  return { parse, parseDateAndTime };
+  return { parse, parseSpan, parseDateAndTime };
 }
 
 /** One-off convenience; build a reader with createTimestampReader for many rows. */

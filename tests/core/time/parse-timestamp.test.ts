@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { createIsoUtcFormatter, createTimestampReader, daysFromCivil, parseTimestamp, TimestampError } from "@/src/core/time";
+import { createIsoUtcFormatter, createTimestampReader, daysFromCivil, parseTimestamp, TimestampError, type TimeReadOptions } from "@/src/core/time";
 
 const iso = (ms: number) => new Date(ms).toISOString();
 
@@ -139,6 +139,27 @@ describe("daysFromCivil", () => {
     for (let y = 1800; y <= 2200; y += 7) {
       for (const [m, d] of [[1, 1], [2, 28], [3, 1], [12, 31]]) {
         expect(daysFromCivil(y, m, d) * 86_400_000).toBe(Date.UTC(y, m - 1, d));
+      }
+    }
+  });
+});
+
+describe("minute cache of the fast path", () => {
+  it("gives the same instants as a cold reader across DST changes and a leap second", () => {
+    const cases: Array<[TimeReadOptions, string, number]> = [
+      [{ timeZone: "Europe/Berlin" }, "2026-03-29T00:00:00", 4 * 3600],
+      [{ timeZone: "Europe/Berlin" }, "2026-10-25T00:00:00", 4 * 3600],
+      [{ timeZone: "America/St_Johns" }, "2026-03-08T01:00:00", 3 * 3600], // −03:30 / −02:30 zone
+      [{ timeBasis: "gps" }, "2016-12-31T23:59:00", 120],
+      [{ clockOffsetS: -1.5 }, "2026-05-04T23:59:00", 120],
+    ];
+    for (const [opts, startText, spanS] of cases) {
+      const warm = createTimestampReader(opts);
+      const start = Date.parse(startText + "Z");
+      for (let s = 0; s <= spanS; s += 7) {
+        const text = new Date(start + s * 1000).toISOString().slice(0, 23);
+        expect(warm.parse(text)).toBe(createTimestampReader(opts).parse(text));
+        expect(warm.parseSpan(`x,${text},y`, 2, 2 + text.length)).toBe(warm.parse(text));
       }
     }
   });

@@ -1,0 +1,14 @@
+/** One benchmark case: a module under bench/cases/ whose default export is a BenchCase. */
+export interface BenchContext {
+  baseFile: string;
+  roverFile: string;
+  outDir: string;
+}
+
+export interface BenchCase {
+  name: string;
+  /** The timed work. Return the row count, or leave it to `rows`. */
+  run(ctx: BenchContext): Promise<{ rows: number } | void>;
+  /** Row count measured after timing and after peak memory is read (so it costs neither). */
+  rows?(ctx: BenchContext): Promise<number>;
+}

@@ -1,0 +1,23 @@
+/** Runs one bench case in this fresh process and prints one JSON line: rows, seconds, peakRssMb. */
+import { pathToFileURL } from "node:url";
+import type { BenchCase, BenchContext } from "./bench-case";
+
+async function main(): Promise<void> {
+  const [casePath, ctxJson] = process.argv.slice(2);
+  const mod = (await import(pathToFileURL(casePath).href)) as { default: BenchCase };
+  const ctx = JSON.parse(ctxJson) as BenchContext;
+  const originalWrite = process.stderr.write.bind(process.stderr);
+  process.stderr.write = (() => true) as typeof process.stderr.write; // the CLI's summary lines are not bench output
+  const start = process.hrtime.bigint();
+  const result = await mod.default.run(ctx);
+  const seconds = Number(process.hrtime.bigint() - start) / 1e9;
+  const peakRssMb = process.resourceUsage().maxRSS / 1024; // maxRSS is in KiB
+  process.stderr.write = originalWrite;
+  const rows = result && "rows" in result ? result.rows : mod.default.rows ? await mod.default.rows(ctx) : NaN;
+  process.stdout.write(JSON.stringify({ name: mod.default.name, rows, seconds, peakRssMb }) + "\n");
+}
+
+main().catch((err: unknown) => {
+  process.stderr.write(`bench child failed: ${err instanceof Error ? err.message : String(err)}\n`);
+  process.exit(1);
+});
