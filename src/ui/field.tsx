@@ -23,8 +23,9 @@ interface FieldFrameProps {
   className?: string;
 }
 
+/** The hint gives way to the error (which restates the rule), so only one is referenced. */
 function describedBy(id: string, hint: unknown, errors?: string[]): string | undefined {
-  const ids = [hint ? `${id}-hint` : null, errors?.length ? `${id}-error` : null].filter(Boolean);
+  const ids = [errors?.length ? `${id}-error` : hint ? `${id}-hint` : null].filter(Boolean);
   return ids.length ? ids.join(" ") : undefined;
 }
 
@@ -46,7 +47,7 @@ function FieldFrame({ id, label, hint, errors, optional, children, className = "
         {optional ? <span className="ml-1 font-normal text-ink-500">(optional)</span> : null}
       </label>
       {children}
-      {hint ? (
+      {hint && !errors?.length ? (
         <p id={`${id}-hint`} className="mt-1 text-xs text-ink-500">
           {hint}
         </p>

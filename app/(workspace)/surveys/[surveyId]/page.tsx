@@ -58,6 +58,7 @@ export default async function SurveyOverviewPage({ params }: Props) {
         </Section>
       </div>
       <div className="space-y-5">
+        <LinkButton href={`/surveys/${s.id}/days`} variant="primary" className="w-full">Days: drift curves, corrections, exports</LinkButton>
         <Section
           title="Members"
           action={<LinkButton href={`/surveys/${s.id}/members`} variant="quiet"><PeopleIcon /> {roleAllows(s.myRole, "members.manage") ? "Manage" : "View"}</LinkButton>}

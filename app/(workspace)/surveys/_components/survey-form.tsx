@@ -10,6 +10,7 @@ import { IDLE, fieldErrorsOf, formErrorOf, successOf, type ActionState } from "@
 import { SelectField, TextAreaField, TextField } from "@/src/ui/field";
 import { FormError, FormSuccess } from "@/src/ui/form-message";
 import { SubmitButton } from "@/src/ui/submit-button";
+import { submitWithoutReset } from "@/src/ui/submit-without-reset";
 
 export type SurveyFormValues = {
   name: string;
@@ -90,13 +91,12 @@ export function SurveyForm({
       action={formAction}
       noValidate
       className="space-y-5"
-      onSubmit={(e) => {
+      onSubmit={submitWithoutReset(formAction, () => {
         setSubmitted(true);
-        if (Object.keys(live).length > 0) {
-          e.preventDefault();
-          setTouched(new Set(FIELDS));
-        }
-      }}
+        if (Object.keys(live).length === 0) return true;
+        setTouched(new Set(FIELDS));
+        return false;
+      })}
     >
       <FormError message={formErrorOf(state)} />
       <FormSuccess message={successOf(state)} />
@@ -109,7 +109,7 @@ export function SurveyForm({
           maxLength={20}
           autoComplete="off"
           spellCheck={false}
-          className="[&_input]:font-mono [&_input]:uppercase"
+          className="[&_input]:uppercase [&_input]:tracking-wide"
           hint="2–20 capitals, digits or dashes, e.g. BRM-26."
           onChange={(e) => set("code", e.target.value.toUpperCase())}
         />

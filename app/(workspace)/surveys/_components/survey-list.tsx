@@ -22,7 +22,7 @@ export function SurveyList({ surveys }: { surveys: Survey[] }) {
       <ul className="divide-y divide-ink-100">
         {surveys.map((s) => (
           <li key={s.id} className="relative grid grid-cols-1 gap-1 px-4 py-3 hover:bg-paper-50 md:grid-cols-[7rem_minmax(0,2fr)_minmax(0,1.4fr)_minmax(0,1.3fr)_8rem] md:items-center md:gap-4">
-            <span className="num font-mono text-sm font-semibold text-ink-700">{s.code}</span>
+            <span className="num text-sm font-semibold tracking-wide text-ink-700">{s.code}</span>
             <span className="flex min-w-0 flex-wrap items-center gap-2">
               <Link href={`/surveys/${s.id}`} className="font-medium text-ink-900 underline-offset-2 hover:underline after:absolute after:inset-0">
                 {s.name}

@@ -22,7 +22,7 @@ export function SurveyHeader({ survey }: { survey: Survey }) {
           Surveys
         </Link>
         <span className="mx-1.5 text-ink-300" aria-hidden="true">/</span>
-        <span className="num font-mono font-semibold text-ink-700">{survey.code}</span>
+        <span className="num font-semibold tracking-wide text-ink-700">{survey.code}</span>
       </div>
       <div className="flex flex-wrap items-center gap-x-3 gap-y-1">
         <h1 className="text-2xl font-semibold tracking-tight text-ink-900 break-words">{survey.name}</h1>

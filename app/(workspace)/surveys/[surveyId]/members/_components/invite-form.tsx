@@ -5,6 +5,7 @@ import { IDLE, fieldErrorsOf, formErrorOf, successOf, type ActionState } from "@
 import { SelectField, TextField } from "@/src/ui/field";
 import { FormError, FormSuccess } from "@/src/ui/form-message";
 import { SubmitButton } from "@/src/ui/submit-button";
+import { submitWithoutReset } from "@/src/ui/submit-without-reset";
 import { ROLE_OPTIONS } from "./role-options";
 
 export function InviteForm({ action }: { action: (prev: ActionState, formData: FormData) => Promise<ActionState> }) {
@@ -18,7 +19,7 @@ export function InviteForm({ action }: { action: (prev: ActionState, formData: F
   const errors = fieldErrorsOf(state);
   const emailLooksWrong = email.length > 3 && !/^[^\s@]+@[^\s@]+\.[^\s@]+$/.test(email.trim());
   return (
-    <form action={formAction} className="space-y-4" noValidate>
+    <form action={formAction} onSubmit={submitWithoutReset(formAction)} className="space-y-4" noValidate>
       <FormError message={formErrorOf(state)} />
       <FormSuccess message={successOf(state)} />
       <div className="grid gap-4 sm:grid-cols-[minmax(0,2fr)_minmax(0,1fr)_auto] sm:items-start">
