@@ -56,6 +56,22 @@ export class AtomicFileWriter {
     if (this.fd !== null) fs.writeSync(this.fd, bytes);
   }
 
+  /** Raw bytes written by the thread pool; the caller keeps `bytes` untouched until it settles. */
+  writeBytesAsync(bytes: Uint8Array): Promise<void> {
+    this.flush();
+    const fd = this.fd;
+    if (fd === null) return Promise.reject(new Error("writer already closed"));
+    return new Promise((resolve, reject) => {
+      const step = (offset: number) =>
+        fs.write(fd, bytes, offset, bytes.length - offset, null, (err, written) => {
+          if (err) reject(err);
+          else if (offset + written < bytes.length) step(offset + written);
+          else resolve();
+        });
+      step(0);
+    });
+  }
+
   write(text: string): void {
     this.pending.push(text);
     this.pendingChars += text.length;
@@ -97,26 +113,55 @@ const INT32_LIMIT = 2_147_483_647;
  */
 export class CsvByteWriter {
   private buf: Buffer;
+  private spare: Buffer;
   private pos = 0;
+  private inFlight: Promise<void> = Promise.resolve();
   private dayCached = NaN;
   private dayPrefix = Buffer.alloc(11);
   private readonly textCache = new Map<string, Buffer>();
 
-  constructor(private readonly sink: (bytes: Uint8Array) => void, capacity = 1 << 22) {
+  /**
+   * `sink` receives full buffers in order. A sink that returns a promise may keep the bytes until
+   * it settles: call `handOff()` when `nearlyFull` (double buffering, so writing overlaps
+   * formatting) and `finish()` at the end.
+   */
+  constructor(private readonly sink: (bytes: Uint8Array) => void | Promise<void>, private readonly capacity = 1 << 22) {
     this.buf = Buffer.allocUnsafe(capacity);
+    this.spare = Buffer.allocUnsafe(capacity);
   }
 
-  /** Make room for n more bytes. */
+  /** Make room for n more bytes by growing the buffer (never writes, so order stays with handOff). */
   private room(n: number): void {
     if (this.pos + n > this.buf.length) {
-      this.flush();
-      if (n > this.buf.length) this.buf = Buffer.allocUnsafe(n * 2);
+      const bigger = Buffer.allocUnsafe(Math.max(this.buf.length * 2, this.pos + n));
+      this.buf.copy(bigger, 0, 0, this.pos);
+      this.buf = bigger;
     }
   }
 
-  flush(): void {
-    if (this.pos > 0) this.sink(this.buf.subarray(0, this.pos));
+  /** True when less than 64 KiB is left: time to hand the buffer off. */
+  get nearlyFull(): boolean {
+    return this.pos > this.capacity - 65_536;
+  }
+
+  /** Pass the filled part to the sink and continue in the other buffer once its previous write is done. */
+  async handOff(): Promise<void> {
+    if (this.pos === 0) return;
+    const full = this.buf.subarray(0, this.pos);
+    const previous = this.inFlight;
+    await previous;
+    this.inFlight = Promise.resolve(this.sink(full));
+    const next = this.spare;
+    this.spare = this.buf.length === this.capacity ? this.buf : Buffer.allocUnsafe(this.capacity);
+    // the buffer just handed off is reused only after its write settles (awaited at the next handOff)
+    this.buf = next;
     this.pos = 0;
+  }
+
+  /** Hand off what is left and wait for every write. */
+  async finish(): Promise<void> {
+    await this.handOff();
+    await this.inFlight;
   }
 
   byte(c: number): void {

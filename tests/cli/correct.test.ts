@@ -122,3 +122,28 @@ describe("correct", () => {
     expect(r.stderr).not.toMatch(/\n\s+at /); // no stack trace
   });
 });
+
+describe("CSV number output", () => {
+  it("prints fixed decimals like Number#toFixed for values read from 2-decimal logs", async () => {
+    const { CsvByteWriter } = await import("@/src/cli/csv-output");
+    const chunks: Buffer[] = [];
+    const w = new CsvByteWriter((b) => void chunks.push(Buffer.from(b)), 1 << 16);
+    const values: Array<[number, number]> = [];
+    let seed = 3;
+    const rnd = () => ((seed = (seed * 1_103_515_245 + 12_345) % 2_147_483_648) / 2_147_483_648);
+    for (let i = 0; i < 20_000; i++) {
+      const v = Math.round((rnd() - 0.5) * 2e7) / 100; // ±100 000.00 like field and residual values
+      values.push([v, 3], [v / 3, 3], [(rnd() - 0.5) * 360, 7], [rnd() * 1e-3, 3], [-rnd() * 1e-4, 3]);
+    }
+    values.push([0, 3], [-0, 3], [-0.0004, 3], [48397.5, 3], [NaN, 3], [123456789.125, 3], [-1e12, 7]);
+    for (const [v, d] of values) {
+      w.fixed(v, d);
+      w.byte(10);
+      if (w.nearlyFull) await w.handOff();
+    }
+    await w.finish();
+    const lines = Buffer.concat(chunks).toString("latin1").split("\n").slice(0, -1);
+    const expected = values.map(([v, d]) => (Number.isNaN(v) ? "" : v.toFixed(d).replace(/^-(0\.0*)$/, "$1")));
+    expect(lines).toEqual(expected);
+  });
+});

@@ -198,8 +198,8 @@ function timeSpan(times: ArrayLike<number>): string {
 }
 
 /** Write the corrected rows; row i of the output is rover reading i. */
-export function writeCorrectedCsv(out: AtomicFileWriter, rover: LogReadings, result: CorrectionResult): void {
-  const w = new CsvByteWriter((bytes) => out.writeBytes(bytes));
+export async function writeCorrectedCsv(out: AtomicFileWriter, rover: LogReadings, result: CorrectionResult): Promise<void> {
+  const w = new CsvByteWriter((bytes) => out.writeBytesAsync(bytes));
   const joinFlags = createFlagJoiner("|");
   const { timeMs, fieldNt, latDeg, lonDeg, heightM, line } = rover;
   const { baseNt, diurnalNt, correctedNt, referenceNt, residualNt, flags } = result;
@@ -231,8 +231,9 @@ export function writeCorrectedCsv(out: AtomicFileWriter, rover: LogReadings, res
     w.byte(COMMA);
     if (flags[i]) w.cell(joinFlags(flags[i]));
     w.byte(10);
+    if (w.nearlyFull) await w.handOff();
   }
-  w.flush();
+  await w.finish();
 }
 
 export async function run(argv: string[]): Promise<void> {
@@ -306,7 +307,7 @@ export async function run(argv: string[]): Promise<void> {
 
   const writer = new AtomicFileWriter(o.out);
   try {
-    writeCorrectedCsv(writer, rover, result);
+    await writeCorrectedCsv(writer, rover, result);
     writer.commit();
   } catch (err) {
     writer.abort();

@@ -162,3 +162,32 @@ describe("streaming", () => {
     expect(r.acceptedCount).toBe(2000 - 21);
   });
 });
+
+describe("fast scanner against papaparse", () => {
+  it("reads unquoted rows (own scanner) exactly as the same rows quoted (papaparse path)", () => {
+    let seed = 7;
+    const rnd = () => ((seed = (seed * 1_103_515_245 + 12_345) % 2_147_483_648) / 2_147_483_648);
+    const rows: string[][] = [];
+    const t0 = Date.UTC(2026, 4, 4);
+    for (let i = 0; i < 3000; i++) {
+      const field = rnd() < 0.02 ? "n/a" : (20_000 + rnd() * 60_000).toFixed(Math.floor(rnd() * 5));
+      const lat = (rnd() * 180 - 90).toFixed(7);
+      const lon = rnd() < 0.01 ? "" : (rnd() * 360 - 180).toFixed(6);
+      const h = rnd() < 0.05 ? "1e2" : (rnd() * 3000 - 100).toFixed(2);
+      rows.push([new Date(t0 + i * 137).toISOString(), field, lat, lon, h, ` L${Math.floor(i / 400)} `]);
+    }
+    const head = "time,field,lat,lon,height,line";
+    const plain = parseLogText([head, ...rows.map((r) => r.join(","))].join("\n"));
+    const quoted = parseLogText([head, ...rows.map((r) => r.map((c) => `"${c}"`).join(","))].join("\n"));
+    expect(plain.readings.count).toBeGreaterThan(2900);
+    for (const key of ["timeMs", "fieldNt", "latDeg", "lonDeg", "heightM", "sourceLine"] as const) {
+      expect(Array.from(plain.readings[key]!)).toEqual(Array.from(quoted.readings[key]!));
+    }
+    expect(plain.readings.line).toEqual(quoted.readings.line);
+    expect(plain.rejected).toEqual(quoted.rejected);
+    // every number equals JavaScript's own Number() of its text
+    const kept = rows.filter((r) => r[1] !== "n/a" && r[3] !== "");
+    expect(Array.from(plain.readings.fieldNt)).toEqual(kept.map((r) => Number(r[1])));
+    expect(Array.from(plain.readings.heightM!)).toEqual(kept.map((r) => Number(r[4])));
+  });
+});
