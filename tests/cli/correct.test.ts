@@ -109,6 +109,22 @@ describe("correct", () => {
     expect(fs.readdirSync(dir).some((f) => f.includes(".tmp"))).toBe(false);
   });
 
+  it("flags readings outside the model's validity and keeps their diurnal correction", () => {
+    // IGRF-14 is valid 1900.0–2030.0 (IAGA 2024, doi:10.5281/zenodo.14012302): 2031 is outside.
+    const base = write("base-2031.csv", "time,field\n2031-05-04T08:00:00Z,48300\n2031-05-04T08:01:00Z,48306\n");
+    const rover = write("rover-2031.csv", "time,field,lat,lon\n2031-05-04T08:00:30Z,48400,51.5,-1.2\n");
+    const out = path.join(dir, "out-2031.csv");
+    const r = cli(["correct", "--base", base, "--rover", rover, "--out", out, "--datum", "48300"]);
+    expect(r.code).toBe(0);
+    const [row] = readCsv(out);
+    expect(row.flags).toBe("outside_model_validity");
+    expect(row.corrected_nT).toBe("48397.000");
+    expect(row.reference_nT).toBe("");
+    const ref = cli(["correct", "--base", base, "--rover", rover, "--out", out + "2", "--datum", "reference"]);
+    expect(ref.code).toBe(2);
+    expect(ref.stderr).toMatch(/needs the base position: give --base-lat/);
+  });
+
   it("gives one-line errors for bad options and logs without a field column", () => {
     const base = write("b.csv", "time,field\n2026-05-04T08:00:00Z,48300\n");
     const bad = cli(["correct", "--base", base, "--rover", base, "--out", path.join(dir, "x.csv"), "--method", "cubic"]);

@@ -271,6 +271,9 @@ export async function run(argv: string[]): Promise<void> {
   }
 
   const basePos = basePositionFrom(o, baseLog);
+  if (o.datum === "reference" && !basePos) {
+    throw new CliError("--datum reference needs the base position: give --base-lat and --base-lon (and --base-height-m), or a base log with lat/lon columns");
+  }
   let reference: ReferenceFieldEvaluator | null = null;
   if (o.reference !== "none") {
     let model: FieldModel;
