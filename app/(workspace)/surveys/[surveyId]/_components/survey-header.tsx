@@ -10,10 +10,14 @@ import { SurveyTabs, type SurveyTab } from "./survey-tabs";
 /** Header strip of every survey page: code, name, client, time zone, state, my role, sections. */
 export function SurveyHeader({ survey }: { survey: Survey }) {
   const base = `/surveys/${survey.id}`;
+  const can = (permission: Parameters<typeof roleAllows>[1]) => roleAllows(survey.myRole, permission);
   const tabs: SurveyTab[] = [
-    { href: base, label: "Overview" },
-    ...(roleAllows(survey.myRole, "members.read") ? [{ href: `${base}/members`, label: "Members" }] : []),
-    ...(roleAllows(survey.myRole, "survey.update") ? [{ href: `${base}/edit`, label: "Edit" }] : []),
+    { href: base, label: "Overview", exact: true },
+    ...(can("days.read") ? [{ href: `${base}/days`, label: "Days" }] : []),
+    ...(can("logs.read") ? [{ href: `${base}/logs`, label: "Logs" }] : []),
+    ...(can("members.read") ? [{ href: `${base}/members`, label: "Members" }] : []),
+    { href: `${base}/settings`, label: "Settings" },
+    ...(can("survey.update") ? [{ href: `${base}/edit`, label: "Edit" }] : []),
   ];
   return (
     <header className="mb-6 border-b border-ink-100">

@@ -3,7 +3,8 @@
 import Link from "next/link";
 import { usePathname } from "next/navigation";
 
-export type SurveyTab = { href: string; label: string };
+/** `exact`: current only on its own URL (the overview); other tabs also own their sub-pages. */
+export type SurveyTab = { href: string; label: string; exact?: boolean };
 
 /** Section links of one survey; the current one is marked for assistive tech too. */
 export function SurveyTabs({ tabs }: { tabs: SurveyTab[] }) {
@@ -11,7 +12,7 @@ export function SurveyTabs({ tabs }: { tabs: SurveyTab[] }) {
   return (
     <nav aria-label="Survey sections" className="-mb-px flex gap-1 overflow-x-auto">
       {tabs.map((tab) => {
-        const current = pathname === tab.href;
+        const current = pathname === tab.href || (!tab.exact && pathname.startsWith(`${tab.href}/`));
         return (
           <Link
             key={tab.href}
