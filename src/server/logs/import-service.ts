@@ -268,6 +268,13 @@ async function importInTransaction(
       })),
     );
   }
+  const warnings = [...summary.warnings];
+  if (!staged.utf8) warnings.push("the file is not UTF-8: it was read as Windows-1252 (Western European)");
+  const overlaps = await overlappingLogs(trx, surveyId, logId, options.instrument, parsed.firstMs, parsed.lastMs);
+  for (const o of overlaps) {
+    warnings.push(`overlaps in time with “${o.originalName}” from the same instrument ${options.instrument}: check that this is not the same data twice`);
+  }
+
   const usedMapping = Object.fromEntries(Object.entries(summary.mapping.names).filter(([, v]) => v !== undefined)) as Record<string, string>;
   await trx("field_logs")
     .where({ id: logId })
@@ -281,15 +288,8 @@ async function importInTransaction(
       issue_count: summary.issueCount,
       first_time_ms: Number.isFinite(parsed.firstMs) ? parsed.firstMs : null,
       last_time_ms: Number.isFinite(parsed.lastMs) ? parsed.lastMs : null,
-      warnings: JSON.stringify(summary.warnings),
+      warnings: JSON.stringify(warnings),
     });
-
-  const warnings = [...summary.warnings];
-  if (!staged.utf8) warnings.push("the file is not UTF-8: it was read as Windows-1252 (Western European)");
-  const overlaps = await overlappingLogs(trx, surveyId, logId, options.instrument, parsed.firstMs, parsed.lastMs);
-  for (const o of overlaps) {
-    warnings.push(`overlaps in time with “${o.originalName}” from the same instrument ${options.instrument}: check that this is not the same data twice`);
-  }
 
   if (options.saveProfileAs) {
     const saved = await saveProfileInTransaction(trx, actor, surveyId, {

@@ -235,6 +235,8 @@ describe("duplicates and overlaps", () => {
     const b = await importText(roverCsv(10, { startIso: "2026-05-07T09:00:05Z", fieldAt: () => 50_000 }), { kind: "rover", fileName: "b.csv", instrument: "ROVER-9" });
     expect(b.overlaps.map((o) => o.id)).toEqual([a.log.id]);
     expect(b.warnings.join(" ")).toMatch(/overlaps in time with “a.csv”/);
+    const stored = await getDb()("field_logs").where({ id: b.log.id }).first();
+    expect(JSON.parse(stored.warnings).join(" ")).toMatch(/overlaps in time with “a.csv”/);
     const c = await importText(roverCsv(10, { startIso: "2026-05-07T09:00:05Z", fieldAt: () => 50_001 }), { kind: "rover", fileName: "c.csv", instrument: "ROVER-10" });
     expect(c.overlaps).toEqual([]);
   });
