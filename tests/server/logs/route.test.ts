@@ -145,6 +145,43 @@ describe("POST /api/v1/surveys/{surveyId}/logs", () => {
   });
 });
 
+describe("refusals through the route: clear error, nothing kept", () => {
+  const cases: [string, string | Uint8Array, Record<string, string>, RegExp][] = [
+    ["an empty file", "", {}, /is empty/],
+    ["a binary file", new Uint8Array([0x50, 0x4b, 0x03, 0x04, 0x00, 0x00, 0x08, 0x00]), {}, /not a text log/],
+    ["a wrong delimiter", "time;field\n2026-05-04T09:00:00Z;48000\n", { delimiter: "comma" }, /separated by semicolons/],
+    ["a missing field column", "time,lat,lon\n2026-05-04T09:00:00Z,53.6,-1.9\n", {}, /no total-field column/],
+    ["non-numeric values", "time,field\n2026-05-04T09:00:00Z,4800O\n2026-05-04T09:00:01Z,48001\n", {}, /1 bad row of 2/],
+    ["impossible timestamps", "time,field\n2026-13-04T09:00:00Z,48000\n2026-05-04T09:00:01Z,48001\n", {}, /1 bad row of 2/],
+    ["times going backwards", "time,field\n2026-05-04T09:00:05Z,48000\n2026-05-04T09:00:01Z,48001\n", {}, /times going backwards or repeated/],
+    ["duplicated timestamps", "time,field\n2026-05-04T09:00:05Z,48000\n2026-05-04T09:00:05Z,48001\n", {}, /times going backwards or repeated/],
+    ["a header only", "time,field\r\n", {}, /header row but no readings/],
+  ];
+  for (const [name, content, extra, message] of cases) {
+    it(name, async () => {
+      const before = await snapshot();
+      const fd = new FormData();
+      fd.append("kind", "rover");
+      for (const [k, v] of Object.entries(extra)) fd.append(k, v);
+      fd.append("file", new Blob([content]), `${name.replace(/ /g, "-")}.csv`);
+      const res = await upload(surveyId, fd, bearer(crewToken));
+      expect(res.status).toBe(422);
+      expect((await res.json()).error.message).toMatch(message);
+      expect(await snapshot()).toEqual(before);
+    });
+  }
+
+  it("a request without a file part, or not multipart", async () => {
+    const fd = new FormData();
+    fd.append("kind", "rover");
+    const res = await upload(surveyId, fd, bearer(crewToken));
+    expect(res.status).toBe(400);
+    expect((await res.json()).error.fieldErrors.file[0]).toMatch(/Attach the log file/);
+    const json = await upload(surveyId, new Blob(["{}"]).stream(), { ...bearer(crewToken), "content-type": "application/json" });
+    expect(json.status).toBe(400);
+  });
+});
+
 describe("who may upload and list", () => {
   it("no credentials → 401; a revoked token → 401", async () => {
     expect((await upload(surveyId, form(roverCsv(1), { kind: "rover" }), {})).status).toBe(401);
