@@ -119,12 +119,15 @@ export async function exportRunCsv(actor: Actor, surveyId: string, day: unknown,
   const survey = await surveyOf(surveyId);
   const chunks: Uint8Array[] = [Buffer.from((await exportHeaderLines(survey, result)).join("\n") + "\n", "utf8")];
   const { rover, corrected } = asCliInputs(result);
-  // The CLI's writer hands its (reused) buffer to the file writer; copy each piece it writes.
+  // The CLI's row writer hands its (reused) buffers to a file writer; this one copies each piece
+  // into memory instead. It offers every write method the CLI's AtomicFileWriter has.
+  const keep = (bytes: Uint8Array) => void chunks.push(Buffer.from(bytes));
   const sink = {
     write: (text: string) => void chunks.push(Buffer.from(text, "utf8")),
-    writeBytes: (bytes: Uint8Array) => void chunks.push(Buffer.from(bytes)),
+    writeBytes: keep,
+    writeBytesAsync: async (bytes: Uint8Array) => keep(bytes),
   } as unknown as AtomicFileWriter;
-  writeCorrectedCsv(sink, rover, corrected);
+  await writeCorrectedCsv(sink, rover, corrected);
   return { fileName: exportFileName(survey.code, result.run.day, result.run.number, "csv"), chunks };
 }
 

@@ -67,7 +67,7 @@ export default async function DayPage({ params }: Props) {
       </section>
       {canEdit ? (
         <section className="rounded-lg border border-ink-100 bg-white p-4 shadow-sm" aria-labelledby="datum-heading">
-          <h3 id="datum-heading" className="mb-2 text-base font-semibold text-ink-900">Datum</h3>
+          <h3 id="datum-heading" className="mb-2 text-base font-semibold text-ink-900">Survey datum</h3>
           <DatumForm surveyId={surveyId} day={date} datumKind={settings.settings.datumKind} datumValueNt={settings.settings.datumValueNt} />
           <p className="mt-3 text-xs text-ink-500">
             Interpolation, gaps, model and offsets: <Link className="text-tide-800 underline" href={`/surveys/${surveyId}/settings`}>processing settings</Link>.

@@ -35,3 +35,29 @@ export function formatCount(n: number): string {
 }
 
 export const RUN_STATUS_LABEL: Record<string, string> = { queued: "Queued", running: "Running", done: "Done", failed: "Failed" };
+
+const HOUR_STEPS = [1, 2, 3, 4, 6];
+
+/**
+ * Axis ticks at whole local hours (every 1–6 h so that about `target` fit), for zones with any
+ * UTC offset (half- and quarter-hour zones included): candidates every 15 min of UTC, kept where
+ * the local minute is 00.
+ */
+export function localHourTicks(startMs: number, endMs: number, timeZone: string, target = 8): number[] {
+  if (!(endMs > startMs)) return [];
+  const quarter = 900_000;
+  const spanH = (endMs - startMs) / 3_600_000;
+  const step = HOUR_STEPS.find((s) => spanH / s <= target) ?? 12;
+  const parts = new Intl.DateTimeFormat("en-GB", { timeZone, hour: "2-digit", minute: "2-digit", hourCycle: "h23" });
+  const out: number[] = [];
+  for (let t = Math.ceil(startMs / quarter) * quarter; t <= endMs; t += quarter) {
+    const [h, m] = parts.format(new Date(t)).split(":").map(Number);
+    if (m === 0 && h % step === 0) out.push(t);
+  }
+  return out;
+}
+
+/** Decimals for axis labels over a value range (1 below 10 nT, else 0). */
+export function axisDigits(range: number): number {
+  return range < 10 ? 1 : 0;
+}

@@ -3,6 +3,7 @@
  * The day's charts and runs. Data comes from the day API routes (thinned on the server); a run is
  * started with POST …/runs and polled until it is done, then the charts follow the new run.
  */
+import { useRouter } from "next/navigation";
 import { useCallback, useEffect, useRef, useState } from "react";
 import type { BaseSeriesResponse, CorrectedSeriesResponse, RoverSeriesResponse } from "@/src/server/days/series";
 import type { RunComparison, RunRecord } from "@/src/server/runs/service";
@@ -54,6 +55,7 @@ export function DayWorkspace({ surveyId, day, timeZone, initialRuns, canRun, can
   const [comparison, setComparison] = useState<RunComparison | null>(null);
   const active = runs.find((r) => r.status === "queued" || r.status === "running") ?? null;
   const pollTimer = useRef<ReturnType<typeof setTimeout> | null>(null);
+  const router = useRouter();
 
   const loadBase = useCallback(() => {
     setBaseLoading(true);
@@ -113,12 +115,13 @@ export function DayWorkspace({ surveyId, day, timeZone, initialRuns, canRun, can
           if (newest?.status === "done") {
             setSelected(newest.number);
             loadBase(); // the datum line follows the new run
+            router.refresh(); // header strip: last run
           } else if (newest?.status === "failed") setError(`Run ${newest.number} failed: ${newest.error ?? ""}`);
         }
       },
       (e: Error) => setError(e.message),
     );
-  }, [api, loadBase]);
+  }, [api, loadBase, router]);
   useEffect(() => {
     if (active && !pollTimer.current) pollTimer.current = setTimeout(poll, POLL_MS);
     return () => {

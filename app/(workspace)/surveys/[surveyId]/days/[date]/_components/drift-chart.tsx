@@ -2,7 +2,7 @@
 /** Base drift curve against survey-local time: gaps as breaks, QA windows shaded, datum line. */
 import { CartesianGrid, Line, LineChart, ReferenceArea, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
 import type { BaseSeriesResponse } from "@/src/server/days/series";
-import { formatCount, formatNt, localTime, utcTime } from "../../_components/day-format";
+import { formatCount, formatNt, localHourTicks, localTime, utcTime } from "../../_components/day-format";
 import { ChartFrame } from "./chart-frame";
 import { QA_FILL, SERIES } from "./chart-style";
 
@@ -49,6 +49,7 @@ export function DriftChart({ data, loading, timeZone }: { data: BaseSeriesRespon
               type="number"
               scale="time"
               domain={["dataMin", "dataMax"]}
+              ticks={rows.length > 1 ? localHourTicks(rows[0].t, rows[rows.length - 1].t, timeZone) : undefined}
               tickFormatter={(t: number) => localTime(t, timeZone)}
               tick={{ fontSize: 11, fill: "#3b4b61" }}
               label={{ value: `Local time (${timeZone})`, position: "insideBottom", offset: -14, fontSize: 11, fill: "#4d6079" }}

@@ -1,6 +1,6 @@
 "use client";
 /**
- * Plan view of the readings coloured by residual on a diverging scale (ours) centred on zero,
+ * Plan view of the readings coloured by residual on a diverging scale (ours) centred on the day's median,
  * symmetric to the larger of |2nd| and |98th| percentile, with its legend and range. Positions
  * are drawn in metres east/north of the readings' centre so the map keeps its shape.
  */
@@ -15,8 +15,10 @@ const M_PER_DEG_LAT = 111_132; // mean metres per degree of latitude (WGS84, com
 export function PlanView({ data, loading }: { data: CorrectedSeriesResponse | null; loading: boolean }) {
   const plan = data?.plan;
   const hist = data?.histogram;
-  const limit = hist ? Math.max(Math.abs(hist.p2Nt - (plan?.value === "corrected" ? hist.medianNt : 0)), Math.abs(hist.p98Nt - (plan?.value === "corrected" ? hist.medianNt : 0)), 0.5) : 1;
-  const centre = plan?.value === "corrected" && hist ? hist.medianNt : 0;
+  // Centred on the day's median: residuals are relative values (the main-field model is uncertain by
+  // ~100 nT), so what matters on the map is departure from the day's background.
+  const centre = hist ? hist.medianNt : 0;
+  const limit = hist ? Math.max(Math.abs(hist.p2Nt - centre), Math.abs(hist.p98Nt - centre), 0.5) : 1;
   let points: { e: number; n: number; v: number }[] = [];
   let domain: { x: [number, number]; y: [number, number] } = { x: [0, 1], y: [0, 1] };
   if (plan && plan.latDeg.length > 0) {
@@ -44,7 +46,7 @@ export function PlanView({ data, loading }: { data: CorrectedSeriesResponse | nu
             <div className="h-3 w-full rounded-sm border border-ink-200" style={{ background: DIVERGING_GRADIENT }} aria-hidden="true" />
             <div className="num mt-0.5 flex justify-between">
               <span>≤ {formatNt(centre - limit)} nT</span>
-              <span>{formatNt(centre)}</span>
+              <span>{formatNt(centre)} (median)</span>
               <span>≥ {formatNt(centre + limit)} nT</span>
             </div>
             <p className="mt-1 text-ink-500">

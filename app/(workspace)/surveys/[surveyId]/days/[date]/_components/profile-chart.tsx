@@ -3,7 +3,7 @@
 import { useState } from "react";
 import { CartesianGrid, Line, LineChart, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
 import type { CorrectedSeriesResponse, LineInfo, RoverSeriesResponse } from "@/src/server/days/series";
-import { formatNt, localTime, utcTime } from "../../_components/day-format";
+import { axisDigits, formatNt, localHourTicks, localTime, utcTime } from "../../_components/day-format";
 import { ChartFrame } from "./chart-frame";
 import { SERIES } from "./chart-style";
 
@@ -130,6 +130,7 @@ export function ProfileChart({
               dataKey="x"
               type="number"
               domain={["dataMin", "dataMax"]}
+              ticks={xMode === "time" && rows.length > 1 && rows[rows.length - 1].x - rows[0].x > 2 * 3_600_000 ? localHourTicks(rows[0].x, rows[rows.length - 1].x, timeZone) : undefined}
               tickFormatter={(v: number) => (xMode === "distance" ? formatNt(v, 0) : localTime(v, timeZone))}
               tick={{ fontSize: 11, fill: "#3b4b61" }}
               label={{ value: xMode === "distance" ? "Distance along line (m)" : `Local time (${timeZone})`, position: "insideBottom", offset: -14, fontSize: 11, fill: "#4d6079" }}
@@ -147,7 +148,7 @@ export function ProfileChart({
                 yAxisId="residual"
                 orientation="right"
                 domain={right ? [Math.floor(right[0] - pad(right)), Math.ceil(right[1] + pad(right))] : ["auto", "auto"]}
-                tickFormatter={(v: number) => formatNt(v, 0)}
+                tickFormatter={(v: number) => formatNt(v, right ? axisDigits(right[1] - right[0]) : 0)}
                 tick={{ fontSize: 11, fill: SERIES.residual }}
                 width={48}
                 label={{ value: "Residual (nT)", angle: 90, position: "insideRight", fontSize: 11, fill: SERIES.residual, dy: -40 }}

@@ -2,13 +2,13 @@
 /** Histogram of every reading's residual (40 bins between the 2nd and 98th percentiles). */
 import { Bar, BarChart, CartesianGrid, Cell, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
 import type { CorrectedSeriesResponse } from "@/src/server/days/series";
-import { formatCount, formatNt } from "../../_components/day-format";
+import { axisDigits, formatCount, formatNt } from "../../_components/day-format";
 import { ChartFrame } from "./chart-frame";
 import { divergingColour } from "./chart-style";
 
 export function ResidualHistogram({ data, loading }: { data: CorrectedSeriesResponse | null; loading: boolean }) {
   const h = data?.histogram;
-  const centre = h && h.value === "corrected" ? h.medianNt : 0;
+  const centre = h ? h.medianNt : 0;
   const limit = h ? Math.max(Math.abs(h.p2Nt - centre), Math.abs(h.p98Nt - centre), 0.5) : 1;
   const rows = h ? h.counts.map((c, i) => ({ mid: (h.edgesNt[i] + h.edgesNt[i + 1]) / 2, count: c })) : [];
   const total = h ? h.counts.reduce((s, c) => s + c, 0) + h.below + h.above : 0;
@@ -31,7 +31,7 @@ export function ResidualHistogram({ data, loading }: { data: CorrectedSeriesResp
         <ResponsiveContainer width="100%" height="100%">
           <BarChart data={rows} margin={{ top: 8, right: 8, bottom: 24, left: 8 }} barCategoryGap={1}>
             <CartesianGrid stroke="#e2e7ee" strokeDasharray="3 3" vertical={false} />
-            <XAxis dataKey="mid" type="number" domain={h ? [h.edgesNt[0], h.edgesNt[h.edgesNt.length - 1]] : [0, 1]} tickFormatter={(v: number) => formatNt(v, 0)}
+            <XAxis dataKey="mid" type="number" domain={h ? [h.edgesNt[0], h.edgesNt[h.edgesNt.length - 1]] : [0, 1]} tickFormatter={(v: number) => formatNt(v, h ? axisDigits(h.p98Nt - h.p2Nt) : 0)}
               tick={{ fontSize: 11, fill: "#3b4b61" }} label={{ value: `${h?.value === "corrected" ? "Corrected field" : "Residual"} (nT)`, position: "insideBottom", offset: -14, fontSize: 11, fill: "#4d6079" }} />
             <YAxis tick={{ fontSize: 11, fill: "#3b4b61" }} width={48} allowDecimals={false}
               label={{ value: "Readings", angle: -90, position: "insideLeft", fontSize: 11, fill: "#4d6079" }} />
