@@ -2,8 +2,13 @@
  * Per-request Content-Security-Policy with a fresh nonce. Next reads the policy from the
  * request header and puts the nonce on its own inline scripts, so no 'unsafe-inline' is
  * needed for scripts. Inline style attributes (React, recharts) need style-src 'unsafe-inline'.
+ *
+ * API routes are left out of the matcher: they answer JSON or files (no CSP needed), and a
+ * proxied request has its body buffered and cut at 10 MB, which would break 200 MB log uploads.
+ * The requested path is passed on so that requireActor() can send a signed-out user back to it.
  */
 import { NextResponse, type NextRequest } from "next/server";
+import { REQUEST_PATH_HEADER } from "@/src/server/auth/request-path";
 
 function contentSecurityPolicy(nonce: string): string {
   const dev = process.env.NODE_ENV === "development";
@@ -27,6 +32,7 @@ export function proxy(request: NextRequest) {
   const requestHeaders = new Headers(request.headers);
   requestHeaders.set("x-nonce", nonce);
   requestHeaders.set("Content-Security-Policy", policy);
+  requestHeaders.set(REQUEST_PATH_HEADER, request.nextUrl.pathname + request.nextUrl.search);
   const response = NextResponse.next({ request: { headers: requestHeaders } });
   response.headers.set("Content-Security-Policy", policy);
   return response;
@@ -35,7 +41,7 @@ export function proxy(request: NextRequest) {
 export const config = {
   matcher: [
     {
-      source: "/((?!_next/static|_next/image|icon.svg|favicon.ico).*)",
+      source: "/((?!api/|_next/static|_next/image|icon.svg|favicon.ico).*)",
       missing: [
         { type: "header", key: "next-router-prefetch" },
         { type: "header", key: "purpose", value: "prefetch" },

@@ -4,9 +4,8 @@
  * the server. Field names: `password`, `confirm`.
  */
 import { useState } from "react";
+import { MIN_PASSWORD_LENGTH as PASSWORD_MIN_LENGTH } from "@/src/server/auth/schema";
 import { TextField } from "./field";
-
-export const PASSWORD_MIN_LENGTH = 10;
 
 export function NewPasswordFields({ errors }: { errors: { password?: string[]; confirm?: string[] } }) {
   const [password, setPassword] = useState("");

@@ -4,7 +4,7 @@ import { redirect } from "next/navigation";
 import { signInWithPassword } from "@/src/server/auth/session";
 import type { ActionState } from "@/src/ui/action-state";
 import { actionErrorState, formFields } from "@/app/_lib/action-errors";
-import { safeNextPath } from "@/app/_lib/safe-next";
+import { safeNextPath } from "@/src/lib/safe-next-path";
 
 export async function signInAction(_prev: ActionState, formData: FormData): Promise<ActionState> {
   const input = formFields(formData, ["email", "password"] as const);

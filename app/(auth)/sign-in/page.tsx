@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import { redirect } from "next/navigation";
 import { getActor } from "@/src/server/auth/session";
 import { FormSuccess } from "@/src/ui/form-message";
-import { safeNextPath } from "@/app/_lib/safe-next";
+import { safeNextPath } from "@/src/lib/safe-next-path";
 import { SignInForm } from "./sign-in-form";
 
 export const metadata: Metadata = { title: "Sign in" };

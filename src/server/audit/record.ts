@@ -15,7 +15,8 @@ export type AuditAction =
   | "invitation.create"
   | "invitation.revoke"
   | "invitation.accept"
-  | "password.reset";
+  | "password.reset"
+  | "log.import";
 
 export async function recordAudit(
   db: Knex | Knex.Transaction,

@@ -4,7 +4,7 @@
  */
 import { hash, verify } from "@node-rs/argon2";
 
-export const MIN_PASSWORD_LENGTH = 10;
+export { MIN_PASSWORD_LENGTH } from "./schema";
 
 export async function hashPassword(password: string): Promise<string> {
   return hash(password);

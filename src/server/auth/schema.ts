@@ -1,6 +1,10 @@
-/** Inputs of the sign-in and password forms (shared by pages, route handlers and services). */
+/**
+ * Inputs of the sign-in and password forms (shared by pages, route handlers and services).
+ * Imports nothing but zod, so client forms can use the same rules as the server.
+ */
 import { z } from "zod";
-import { MIN_PASSWORD_LENGTH } from "./password";
+
+export const MIN_PASSWORD_LENGTH = 10;
 
 export const EmailSchema = z
   .string({ error: "Enter an e-mail address." })

@@ -3,13 +3,15 @@ import "server-only";
  * Session helpers for pages, server actions and route handlers inside Next's request context
  * (they use next/headers cookies). Everything else goes through the cookie-free ./accounts.ts.
  */
-import { cookies } from "next/headers";
+import { cookies, headers } from "next/headers";
 import { redirect } from "next/navigation";
 import { cache } from "react";
 import type { Cookie } from "lucia";
 import type { Actor } from "./actor";
 import { authenticateInput, blankSessionCookie, checkSession, createSession, invalidateSession, sessionCookie } from "./accounts";
 import { SESSION_COOKIE_NAME } from "./lucia";
+import { REQUEST_PATH_HEADER } from "./request-path";
+import { safeNextPath } from "@/src/lib/safe-next-path";
 
 export type { Actor } from "./actor";
 
@@ -43,7 +45,9 @@ export const getActor = cache(async (): Promise<Actor | null> => {
 export async function requireActor(nextPath?: string): Promise<Actor> {
   const actor = await getActor();
   if (actor) return actor;
-  const safeNext = nextPath && nextPath.startsWith("/") && !nextPath.startsWith("//") ? nextPath : null;
+  // Without an explicit path (e.g. from a layout), return to the URL the proxy saw.
+  const wanted = nextPath ?? (await headers()).get(REQUEST_PATH_HEADER);
+  const safeNext = safeNextPath(wanted, "") || null;
   redirect(safeNext ? `/sign-in?next=${encodeURIComponent(safeNext)}` : "/sign-in");
 }
 
