@@ -246,6 +246,35 @@ describe("backup during writes, restore into a fresh folder", () => {
   });
 });
 
+describe("backups that cannot be made or read", () => {
+  it("a referenced original missing from UPLOAD_DIR stops the backup with its key, leaving no folder behind", async () => {
+    const dir = path.join(root, "missing-original");
+    fs.mkdirSync(path.join(dir, "uploads", "originals"), { recursive: true });
+    const databaseFile = path.join(dir, "db.sqlite");
+    fs.copyFileSync(live.databaseFile, databaseFile); // the live file alone, without its originals (and without its WAL)
+    const db = new Database(databaseFile);
+    const key = (db.prepare("SELECT storage_key AS k FROM field_logs ORDER BY storage_key LIMIT 1").get() as { k: string }).k;
+    db.close();
+    const outDir = path.join(dir, "backups", "b1");
+    await expect(createBackup({ databaseFile, uploadDir: path.join(dir, "uploads"), outDir, appVersion: "test" })).rejects.toThrow(
+      new RegExp(`original file ${key} is missing from .* although the database refers to it`),
+    );
+    expect(fs.readdirSync(path.join(dir, "backups"))).toEqual([]);
+  });
+
+  it("a folder without a manifest, or with a malformed one, is refused by name", async () => {
+    const dir = path.join(root, "not-a-backup");
+    fs.mkdirSync(dir, { recursive: true });
+    const target = { databaseFile: path.join(root, "nb", "db.sqlite"), uploadDir: path.join(root, "nb", "up") };
+    await expect(restoreBackup({ fromDir: dir, ...target })).rejects.toThrow(/is not a backup folder: it has no manifest\.json/);
+    fs.writeFileSync(path.join(dir, "manifest.json"), "{ not json");
+    await expect(restoreBackup({ fromDir: dir, ...target })).rejects.toThrow(/manifest\.json is not valid JSON/);
+    fs.writeFileSync(path.join(dir, "manifest.json"), JSON.stringify({ format: "fieldtide-backup", formatVersion: 1, originals: [{ storageKey: "../../etc/passwd" }] }));
+    await expect(restoreBackup({ fromDir: dir, ...target })).rejects.toThrow(/is not a Fieldtide backup manifest/);
+    expect(fs.existsSync(path.join(root, "nb"))).toBe(false);
+  });
+});
+
 describe("npm run db:backup / db:restore (scripts/db-backup.ts)", () => {
   const run = promisify(execFile);
   const tsx = path.resolve("node_modules/.bin/tsx");

@@ -196,6 +196,21 @@ const lineDamagesArb = fc.array(
   { minLength: 1, maxLength: 3 },
 );
 
+describe("per-log clock offset", () => {
+  it("shifts every reading by exactly the offset (rounded to the ms) and changes nothing else", () => {
+    runProperty(
+      "clock offset",
+      fc.property(validLogArb(), fc.double({ min: -86_400, max: 86_400, noNaN: true }), (log, clockOffsetS) => {
+        const o = parseWhole(log.text, { clockOffsetS });
+        if (!o.ok) throw o.error;
+        const shiftMs = Math.round(clockOffsetS * 1000);
+        expectExactly({ ...log, readings: log.readings.map((r) => ({ ...r, timeMs: r.timeMs + shiftMs })) }, o.value);
+      }),
+      { numRuns: 200, timeLimitMs: 2000 },
+    );
+  });
+});
+
 describe("CRLF logs with quoted cells", () => {
   // Finding F2 in /tmp/fuzz-findings.md: when a row that ends in a quoted cell and CRLF is the
   // last complete line of a pushed chunk (always true for the file's last row), its last cell
