@@ -339,8 +339,12 @@ async function importInTransaction(
 
 type DayAggregate = { count: number; first: number; last: number };
 
-const INSERT_READING =
-  "INSERT INTO log_readings (log_id, time_ms, field_nt, latitude_deg, longitude_deg, height_m, line, station, source_line, local_day) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)";
+const READING_COLUMNS = 10;
+/** Rows per multi-row INSERT: fewer calls into SQLite per reading (640 parameters, far below SQLite's limit). */
+const ROWS_PER_INSERT = 64;
+const insertSql = (rows: number) =>
+  "INSERT INTO log_readings (log_id, time_ms, field_nt, latitude_deg, longitude_deg, height_m, line, station, source_line, local_day) VALUES " +
+  Array.from({ length: rows }, () => "(?, ?, ?, ?, ?, ?, ?, ?, ?, ?)").join(", ");
 
 const num = (v: number) => (v === v ? v : null);
 
@@ -356,7 +360,10 @@ async function parseIntoTable(
 ): Promise<{ summary: LogParseSummary; days: Map<number, DayAggregate>; stored: number; firstMs: number; lastMs: number }> {
   // The transaction's own connection (Knex holds one better-sqlite3 connection): fast prepared inserts, same transaction.
   const conn = (await (trx as unknown as { client: { acquireConnection(): Promise<Database.Database> } }).client.acquireConnection()) as Database.Database;
-  const insert = conn.prepare(INSERT_READING);
+  const insertOne = conn.prepare(insertSql(1));
+  const insertMany = conn.prepare(insertSql(ROWS_PER_INSERT));
+  const params: (number | string | null)[] = new Array(READING_COLUMNS * ROWS_PER_INSERT);
+  let queued = 0;
   const offsetAt = createZoneOffsetLookup(surveyTimeZone);
   const days = new Map<number, DayAggregate>();
   let stored = 0;
@@ -370,18 +377,21 @@ async function parseIntoTable(
     for (let i = 0; i < b.count; i++) {
       const t = timeMs[i];
       const day = Math.floor((t + offsetAt(t)) / MS_PER_DAY);
-      insert.run(
-        logId,
-        t,
-        fieldNt[i],
-        latDeg ? num(latDeg[i]) : null,
-        lonDeg ? num(lonDeg[i]) : null,
-        heightM ? num(heightM[i]) : null,
-        line ? line[i] || null : null,
-        station ? station[i] || null : null,
-        sourceLine[i],
-        day,
-      );
+      const at = queued * READING_COLUMNS;
+      params[at] = logId;
+      params[at + 1] = t;
+      params[at + 2] = fieldNt[i];
+      params[at + 3] = latDeg ? num(latDeg[i]) : null;
+      params[at + 4] = lonDeg ? num(lonDeg[i]) : null;
+      params[at + 5] = heightM ? num(heightM[i]) : null;
+      params[at + 6] = line ? line[i] || null : null;
+      params[at + 7] = station ? station[i] || null : null;
+      params[at + 8] = sourceLine[i];
+      params[at + 9] = day;
+      if (++queued === ROWS_PER_INSERT) {
+        insertMany.run(params);
+        queued = 0;
+      }
       if (day !== lastDay) {
         lastDay = day;
         lastAgg = days.get(day) ?? null;
@@ -397,6 +407,9 @@ async function parseIntoTable(
       if (t < firstMs) firstMs = t;
       if (t > lastMs) lastMs = t;
     }
+    // rows left over go in one by one, so the table holds exactly this batch when the callback returns
+    for (let k = 0; k < queued; k++) insertOne.run(params.slice(k * READING_COLUMNS, (k + 1) * READING_COLUMNS));
+    queued = 0;
     stored += b.count;
   };
 
