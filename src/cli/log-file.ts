@@ -24,8 +24,8 @@ export async function readLogFile(file: string, options: LogParseOptions): Promi
     throw err;
   }
   try {
-    const stream = fs.createReadStream(file, { encoding: "utf8", highWaterMark: READ_CHUNK_BYTES });
-    for await (const chunk of stream) parser.push(chunk as string);
+    const stream = fs.createReadStream(file, { highWaterMark: READ_CHUNK_BYTES });
+    for await (const chunk of stream) parser.push(chunk as Buffer); // UTF-8 bytes: no decoding of the whole text
     const result = parser.end();
     return { ...result, readings: result.readings! };
   } catch (err) {

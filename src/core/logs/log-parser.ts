@@ -17,7 +17,7 @@ import { createTimestampReader, TimestampError, type TimeReadOptions, type Times
 import { resolveColumnMapping, type ColumnMappingResult, type ExplicitColumnMapping } from "./column-mapping";
 import { detectDelimiter, type Delimiter } from "./delimiter";
 import { LogFormatError } from "./log-format-error";
-import { parseDecimalSpan } from "./decimal-span";
+import { parseDecimalBytes } from "./decimal-span";
 import { ReadingColumnsBuilder, type LogReadings } from "./reading-columns";
 
 /** Plausible total field at the Earth's surface, nT (IGRF surface range is roughly 22 000–67 000; practice adds margin). */
@@ -78,8 +78,11 @@ export interface LogParseResult extends LogParseSummary {
 }
 
 export interface LogStreamParser {
-  /** Feed the next piece of text (any split, even mid-line). Throws LogFormatError on a bad header. */
-  push(chunk: string): void;
+  /**
+   * Feed the next piece of the log, as text or UTF-8 bytes (any split, even mid-line or mid-character).
+   * Throws LogFormatError on a bad header.
+   */
+  push(chunk: string | Uint8Array): void;
   /** Finish; `readings` is null when batches went to `onBatch`. Throws LogFormatError on an empty log. */
   end(): LogParseSummary & { readings: LogReadings | null };
 }
@@ -108,9 +111,24 @@ function readNumber(s: string, decimalComma: boolean): number {
 
 const LOOKS_LIKE_DATA = /^[\s\d.,:+\-/TZ]+$/;
 const INITIAL_CELLS = 64;
+const LF = 10;
+const CR = 13;
+const QUOTE = 34;
+const HASH = 35;
+const UTF8_DECODER = new TextDecoder("utf-8");
+const UTF8_ENCODER = new TextEncoder();
 
 function isPadding(c: number): boolean {
-  return c === 32 || c === 9 || c === 13 || c === 0xfeff;
+  return c === 32 || c === 9 || c === CR;
+}
+
+/** Append b to a (a new array). */
+function concatBytes(a: Uint8Array, b: Uint8Array): Uint8Array {
+  if (a.length === 0) return b;
+  const out = new Uint8Array(a.length + b.length);
+  out.set(a, 0);
+  out.set(b, a.length);
+  return out;
 }
 
 export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogStreamSinks = {}): LogStreamParser {
@@ -119,7 +137,8 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
   const maxReported = options.maxReportedRows ?? DEFAULT_MAX_REPORTED_ROWS;
   const reader: TimestampReader = createTimestampReader(options);
 
-  let pending = "";
+  let pending: Uint8Array = new Uint8Array(0);
+  let atStreamStart = true;
   let started = false;
   let lineNo = 0;
   let header: string[] | null = null;
@@ -135,9 +154,11 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
   const warnings: string[] = [];
   let prevTimeMs = NaN;
   let lastLine = "";
+  let lastLineBytes = new Uint8Array(0);
   let lastStation = "";
+  let lastStationBytes = new Uint8Array(0);
 
-  // The current row: cell i is src[cellStart[i], cellEnd[i]), padding already trimmed.
+  // The current row: cell i is src[cellStart[i], cellEnd[i]) (UTF-8 bytes), padding trimmed.
   let cellStart = new Int32Array(INITIAL_CELLS);
   let cellEnd = new Int32Array(INITIAL_CELLS);
   let cellCount = 0;
@@ -146,9 +167,9 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
   let iTime = -1, iDate = -1, iField = -1, iLat = -1, iLon = -1, iHeight = -1, iLine = -1, iStation = -1;
   let nameOf: (i: number) => string = () => "";
 
-  function pushCell(src: string, from: number, to: number): void {
-    while (from < to && isPadding(src.charCodeAt(from))) from++;
-    while (to > from && isPadding(src.charCodeAt(to - 1))) to--;
+  function pushCell(src: Uint8Array, from: number, to: number): void {
+    if (from < to && isPadding(src[from])) while (from < to && isPadding(src[from])) from++;
+    if (to > from && isPadding(src[to - 1])) while (to > from && isPadding(src[to - 1])) to--;
     if (cellCount === cellStart.length) {
       const a = new Int32Array(cellCount * 2), b = new Int32Array(cellCount * 2);
       a.set(cellStart);
@@ -162,19 +183,19 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
   }
 
   const blank = (i: number) => i >= cellCount || cellStart[i] === cellEnd[i];
-  const textOf = (src: string, i: number) => (i < cellCount ? src.slice(cellStart[i], cellEnd[i]) : "");
+  const textOf = (src: Uint8Array, i: number) => (i < cellCount ? UTF8_DECODER.decode(src.subarray(cellStart[i], cellEnd[i])) : "");
 
-  function numberOf(src: string, i: number): number {
-    const v = parseDecimalSpan(src, cellStart[i], cellEnd[i], decimalComma);
-    return v === v ? v : readNumber(src.slice(cellStart[i], cellEnd[i]), decimalComma);
+  function numberOf(src: Uint8Array, i: number): number {
+    const v = parseDecimalBytes(src, cellStart[i], cellEnd[i], decimalComma);
+    return v === v ? v : readNumber(textOf(src, i), decimalComma);
   }
 
-  /** Interned text of a cell: equal consecutive values share one string. */
-  function internedText(src: string, i: number, last: string): string {
-    if (i >= cellCount) return "";
-    const from = cellStart[i], to = cellEnd[i];
-    if (to - from === last.length && src.startsWith(last, from)) return last;
-    return src.slice(from, to);
+  /** True when cell i holds exactly `bytes`. */
+  function cellEquals(src: Uint8Array, i: number, bytes: Uint8Array): boolean {
+    const from = cellStart[i];
+    if (cellEnd[i] - from !== bytes.length) return false;
+    for (let k = bytes.length - 1; k >= 0; k--) if (src[from + k] !== bytes[k]) return false;
+    return true;
   }
 
   function reject(line: number, col: number, value: string, reason: RejectReason, message: string): void {
@@ -215,7 +236,7 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
   }
 
   /** The row held in cellStart/cellEnd over src. */
-  function processRow(src: string, line: number): void {
+  function processRow(src: Uint8Array, line: number): void {
     let allBlank = true;
     for (let i = 0; i < cellCount; i++) {
       if (cellStart[i] !== cellEnd[i]) {
@@ -224,7 +245,7 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
       }
     }
     if (allBlank) return;
-    if (!blank(0) && src.charCodeAt(cellStart[0]) === 35 /* # */) return;
+    if (!blank(0) && src[cellStart[0]] === HASH) return;
     if (header === null) {
       const cells: string[] = [];
       for (let i = 0; i < cellCount; i++) cells.push(textOf(src, i));
@@ -249,7 +270,7 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
           timeMs = reader.parse(timeText); // a time column that already holds the date
         }
       } else {
-        timeMs = reader.parseSpan(src, cellStart[iTime], cellEnd[iTime]);
+        timeMs = reader.parseBytes(src, cellStart[iTime], cellEnd[iTime]);
       }
     } catch (e) {
       if (!(e instanceof TimestampError)) throw e;
@@ -316,115 +337,139 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
       issue(line, iTime, textOf(src, iTime), "duplicate_time", "same time as the previous reading");
     }
     prevTimeMs = timeMs;
-    if (iLine >= 0) lastLine = internedText(src, iLine, lastLine);
-    if (iStation >= 0) lastStation = internedText(src, iStation, lastStation);
-    builder!.push(timeMs, fieldNt, latDeg, lonDeg, heightM, lastLine, lastStation, line);
+    // text cells: consecutive equal values share one string (a survey line spans thousands of rows)
+    if (iLine >= 0) {
+      if (blank(iLine)) lastLine = "";
+      else if (!cellEquals(src, iLine, lastLineBytes)) {
+        lastLineBytes = src.slice(cellStart[iLine], cellEnd[iLine]);
+        lastLine = UTF8_DECODER.decode(lastLineBytes);
+      }
+    }
+    if (iStation >= 0) {
+      if (blank(iStation)) lastStation = "";
+      else if (!cellEquals(src, iStation, lastStationBytes)) {
+        lastStationBytes = src.slice(cellStart[iStation], cellEnd[iStation]);
+        lastStation = UTF8_DECODER.decode(lastStationBytes);
+      }
+    }
+    builder!.push(timeMs, fieldNt, latDeg, lonDeg, heightM, iLine >= 0 && !blank(iLine) ? lastLine : "", iStation >= 0 && !blank(iStation) ? lastStation : "", line);
   }
 
   /**
-   * Complete lines (no trailing newline). Unquoted delimited text is split here by indexOf over the
-   * block, without a string per cell; a block holding quotes goes through papaparse, whose cells are
-   * joined so the same row code reads them.
+   * Complete lines (no trailing line feed) as UTF-8 bytes. Unquoted delimited text is split here in
+   * one pass over the bytes, without a string per cell; a block holding quotes goes through
+   * papaparse, whose cells are joined and re-encoded so the same row code reads them.
    */
-  function processBlock(block: string): void {
-    if (block.length === 0) {
+  function processBlock(block: Uint8Array): void {
+    const n = block.length;
+    if (n === 0) {
       lineNo++; // one empty line
       return;
     }
-    if (delimiter !== "whitespace" && block.indexOf('"') >= 0) {
-      processQuotedBlock(block);
+    if (delimiter !== "whitespace" && block.indexOf(QUOTE) >= 0) {
+      processQuotedBlock(UTF8_DECODER.decode(block));
       return;
     }
-    const whitespace = delimiter === "whitespace";
-    const delim = whitespace ? "" : delimiter;
-    let at = 0;
-    const n = block.length;
-    while (at <= n) {
-      let nl = block.indexOf("\n", at);
-      if (nl < 0) nl = n;
-      lineNo++;
-      cellCount = 0;
-      if (whitespace) {
+    if (delimiter === "whitespace") {
+      let at = 0;
+      while (at <= n) {
+        let nl = block.indexOf(LF, at);
+        if (nl < 0) nl = n;
+        lineNo++;
+        cellCount = 0;
         let k = at;
         while (k < nl) {
-          while (k < nl && isPadding(block.charCodeAt(k))) k++;
+          while (k < nl && isPadding(block[k])) k++;
           if (k >= nl) break;
           const from = k;
-          while (k < nl && !isPadding(block.charCodeAt(k))) k++;
+          while (k < nl && !isPadding(block[k])) k++;
           pushCell(block, from, k);
         }
-      } else {
-        let from = at;
-        for (;;) {
-          let k = block.indexOf(delim, from);
-          if (k < 0 || k > nl) k = nl;
-          pushCell(block, from, k);
-          if (k === nl) break;
-          from = k + 1;
-        }
+        if (cellCount > 0) processRow(block, lineNo);
+        at = nl + 1;
       }
-      if (cellCount > 0) processRow(block, lineNo);
-      at = nl + 1;
+      return;
     }
+    const delimCode = delimiter.charCodeAt(0);
+    let from = 0;
+    cellCount = 0;
+    for (let k = 0; k < n; k++) {
+      const c = block[k];
+      if (c === delimCode) {
+        pushCell(block, from, k);
+        from = k + 1;
+      } else if (c === LF) {
+        pushCell(block, from, k);
+        lineNo++;
+        processRow(block, lineNo);
+        from = k + 1;
+        cellCount = 0;
+      }
+    }
+    pushCell(block, from, n); // the last line has no line feed
+    lineNo++;
+    processRow(block, lineNo);
+    cellCount = 0;
   }
 
-  function processQuotedBlock(block: string): void {
-    const rows = Papa.parse<string[]>(block, { delimiter, newline: "\n", header: false, skipEmptyLines: false }).data;
+  function processQuotedBlock(text: string): void {
+    const rows = Papa.parse<string[]>(text, { delimiter, newline: "\n", header: false, skipEmptyLines: false }).data;
     for (let r = 0; r < rows.length; r++) {
       const cells = rows[r];
       lineNo++;
       const line = lineNo;
       for (const c of cells) for (let k = c.indexOf("\n"); k >= 0; k = c.indexOf("\n", k + 1)) lineNo++;
-      const joined = cells.join("\u0000");
+      const encoded = cells.map((c) => UTF8_ENCODER.encode(c));
+      let total = 0;
+      for (const e of encoded) total += e.length + 1;
+      const joined = new Uint8Array(total);
       cellCount = 0;
       let at = 0;
-      for (const c of cells) {
-        pushCell(joined, at, at + c.length);
-        at += c.length + 1;
+      for (const e of encoded) {
+        joined.set(e, at);
+        pushCell(joined, at, at + e.length);
+        at += e.length + 1;
       }
       processRow(joined, line);
     }
   }
 
-  function startIfNeeded(): boolean {
+  /** Detect the delimiter on the first line that is neither blank nor a comment; false until one is complete. */
+  function startIfNeeded(final: boolean): boolean {
     if (started) return true;
-    const nl = pending.indexOf("\n");
-    if (nl < 0) return false;
-    if (pending.charCodeAt(0) === 0xfeff) pending = pending.slice(1);
-    // detect on the first line that is neither blank nor a comment
     let at = 0;
     for (;;) {
-      const e = pending.indexOf("\n", at);
-      if (e < 0) return false;
-      const line = pending.slice(at, e).trim();
+      let e = pending.indexOf(LF, at);
+      if (e < 0) {
+        if (!final) return false;
+        e = pending.length;
+      }
+      const line = UTF8_DECODER.decode(pending.subarray(at, e)).trim();
       if (line.length > 0 && !line.startsWith("#")) {
         delimiter = options.delimiter ?? detectDelimiter(line);
-        break;
+        started = true;
+        return true;
       }
+      if (e >= pending.length) return false;
       at = e + 1;
     }
-    started = true;
-    return true;
   }
 
   function cutCompleteLines(final: boolean): void {
-    if (!startIfNeeded()) {
-      if (!final) return;
-      if (pending.charCodeAt(0) === 0xfeff) pending = pending.slice(1);
-      const line = pending.trim();
-      if (line.length === 0) return;
-      delimiter = options.delimiter ?? detectDelimiter(line);
-      started = true;
+    if (atStreamStart && (pending.length >= 3 || final)) {
+      if (pending[0] === 0xef && pending[1] === 0xbb && pending[2] === 0xbf) pending = pending.subarray(3); // UTF-8 BOM
+      atStreamStart = false;
     }
-    const cut = final ? pending.length : pending.lastIndexOf("\n");
+    if (atStreamStart || !startIfNeeded(final)) return;
+    const cut = final ? pending.length : pending.lastIndexOf(LF);
     if (cut < 0) return;
-    const block = pending.slice(0, cut);
-    if (!final && delimiter !== "whitespace" && block.indexOf('"') >= 0) {
+    const block = pending.subarray(0, cut);
+    if (!final && delimiter !== "whitespace" && block.indexOf(QUOTE) >= 0) {
       let quotes = 0;
-      for (let k = block.indexOf('"'); k >= 0; k = block.indexOf('"', k + 1)) quotes++;
+      for (let k = block.indexOf(QUOTE); k >= 0; k = block.indexOf(QUOTE, k + 1)) quotes++;
       if (quotes % 2 === 1) return; // a quoted field runs on: wait for more text
     }
-    pending = final ? "" : pending.slice(cut + 1);
+    pending = final ? new Uint8Array(0) : pending.subarray(cut + 1);
     if (block.length === 0 && final) return;
     processBlock(block);
     if (sinks.onBatch && builder && builder.count > 0) {
@@ -434,8 +479,11 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
   }
 
   return {
-    push(chunk: string): void {
-      pending = pending.length === 0 ? chunk : pending + chunk;
+    push(chunk: string | Uint8Array): void {
+      // a plain Uint8Array view (not a Node Buffer subclass) keeps the byte loops monomorphic
+      const bytes =
+        typeof chunk === "string" ? UTF8_ENCODER.encode(chunk) : new Uint8Array(chunk.buffer, chunk.byteOffset, chunk.byteLength);
+      pending = concatBytes(pending, bytes);
       cutCompleteLines(false);
     },
     end() {

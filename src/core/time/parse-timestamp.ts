@@ -35,14 +35,15 @@ export interface TimeReadOptions {
 export interface TimestampReader {
   /** One timestamp text → UTC ms; throws TimestampError. */
   parse(text: string): number;
-  /** The timestamp in text[start, end) without slicing it out first; throws TimestampError. */
-  parseSpan(text: string, start: number, end: number): number;
+  /** The timestamp in bytes[start, end) (UTF-8) without building a string first; throws TimestampError. */
+  parseBytes(bytes: Uint8Array, start: number, end: number): number;
   /** Separate date and time columns → UTC ms; throws TimestampError. */
   parseDateAndTime(dateText: string, timeText: string): number;
 }
 
 const MS_PER_MIN = 60_000;
 const MS_PER_DAY = 86_400_000;
+const UTF8 = new TextDecoder("utf-8");
 const EXTENDED_RE =
   /^\s*(\d{4})[-/](\d{1,2})[-/](\d{1,2})(?:(?:T|t|\s+)(\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d+))?)?)?\s*(Z|z|UTC|GMT|[+-]\d{2}(?::?\d{2})?)?\s*$/;
 const BASIC_RE = /^\s*(\d{4})(\d{2})(\d{2})[Tt](\d{2})(\d{2})(\d{2})?(?:[.,](\d+))?\s*(Z|z|[+-]\d{2}(?:\d{2})?)?\s*$/;
@@ -57,16 +58,18 @@ function fractionToMs(frac: string | undefined): number {
   return Math.floor(four / 10) + (four % 10 >= 5 ? 1 : 0);
 }
 
-/** Non-negative integer from `len` ASCII digits at `at`, or −1. */
-function digits(text: string, at: number, len: number): number {
+/** Non-negative integer from `len` ASCII digit bytes at `at`, or −1. */
+function digits(bytes: Uint8Array, at: number, len: number): number {
   let v = 0;
   for (let i = at; i < at + len; i++) {
-    const c = text.charCodeAt(i) - 48;
+    const c = bytes[i] - 48;
     if (c < 0 || c > 9) return -1;
     v = v * 10 + c;
   }
   return v;
 }
+
+const SCRATCH_BYTES = 64;
 
 /** Offset text → ms (local − UTC); null when absent. */
 function offsetToMs(text: string, offset: string | undefined): number | null {
@@ -124,67 +127,97 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
   // Minute cache for the fixed layout: logs run in time order, so consecutive rows share
   // `yyyy-mm-ddThh:mm`; the zone offset is looked up once per minute (kept only when the offset is the
   // same at both ends of that minute).
-  let cachedPrefix = "";
+  const cachedPrefix = new Uint8Array(16);
+  let cacheValid = false;
   let cachedZulu = false;
   let cachedMinuteUtcMs = NaN; // UTC of hh:mm:00 before clock offset and time basis
+  const scratch = new Uint8Array(SCRATCH_BYTES);
 
-  function parseFixedLayout(text: string, at: number, end: number): number {
+  /**
+   * Fixed layout `yyyy-mm-ddThh:mm:ss[.f…][Z]` (or `/`, or a space for T) in bytes[at, end) (ASCII),
+   * read without building a string; NaN when the span is not that layout or its fields are
+   * impossible (the general path then reads it and reports why).
+   */
+  function parseFixedLayout(bytes: Uint8Array, at: number, end: number): number {
     const n = end - at;
     if (n < 19) return NaN;
-    const c4 = text.charCodeAt(at + 4);
-    const c10 = text.charCodeAt(at + 10);
-    if ((c4 !== 45 && c4 !== 47) || text.charCodeAt(at + 7) !== c4 || (c10 !== 84 && c10 !== 32)) return NaN;
-    if (text.charCodeAt(at + 13) !== 58 || text.charCodeAt(at + 16) !== 58) return NaN;
+    const c4 = bytes[at + 4];
+    const c10 = bytes[at + 10];
+    if ((c4 !== 45 && c4 !== 47) || bytes[at + 7] !== c4 || (c10 !== 84 && c10 !== 32)) return NaN;
+    if (bytes[at + 13] !== 58 || bytes[at + 16] !== 58) return NaN;
     let stop = end;
     let zulu = false;
-    if (text.charCodeAt(end - 1) === 90) {
+    if (bytes[end - 1] === 90) {
       zulu = true;
       stop = end - 1;
     }
-    const s = digits(text, at + 17, 2);
+    const s = digits(bytes, at + 17, 2);
     if (s < 0 || s > 59) return NaN;
     let ms = 0;
     if (stop > at + 19) {
-      if (text.charCodeAt(at + 19) !== 46 || stop === at + 20) return NaN;
+      if (bytes[at + 19] !== 46 || stop === at + 20) return NaN;
       let four = 0;
       for (let i = at + 20; i < stop; i++) {
-        const c = text.charCodeAt(i) - 48;
+        const c = bytes[i] - 48;
         if (c < 0 || c > 9) return NaN;
         if (i < at + 24) four = four * 10 + c;
       }
       for (let k = stop - (at + 20); k < 4; k++) four *= 10;
       ms = Math.floor(four / 10) + (four % 10 >= 5 ? 1 : 0);
     }
+    let same = cacheValid && zulu === cachedZulu;
+    if (same) {
+      for (let i = 15; i >= 0; i--) {
+        if (bytes[at + i] !== cachedPrefix[i]) {
+          same = false;
+          break;
+        }
+      }
+    }
     let minuteUtcMs: number;
-    if (zulu === cachedZulu && text.startsWith(cachedPrefix, at) && cachedPrefix.length === 16) {
+    if (same) {
       minuteUtcMs = cachedMinuteUtcMs;
     } else {
-      const y = digits(text, at, 4), mo = digits(text, at + 5, 2), d = digits(text, at + 8, 2);
-      const h = digits(text, at + 11, 2), mi = digits(text, at + 14, 2);
+      const y = digits(bytes, at, 4), mo = digits(bytes, at + 5, 2), d = digits(bytes, at + 8, 2);
+      const h = digits(bytes, at + 11, 2), mi = digits(bytes, at + 14, 2);
       if (y < 0 || mo < 0 || d < 0 || h < 0 || mi < 0) return NaN;
       if (mo < 1 || mo > 12 || d < 1 || d > daysInMonth(y, mo) || h > 23 || mi > 59) return NaN;
       const packed = daysFromCivil(y, mo, d) * MS_PER_DAY + (h * 60 + mi) * 60_000;
       minuteUtcMs = zulu ? packed : localToUtc(packed);
-      const constant = zulu || localToUtc(packed + 59_999) - minuteUtcMs === 59_999;
-      cachedPrefix = constant ? text.slice(at, at + 16) : "";
+      cacheValid = zulu || localToUtc(packed + 59_999) - minuteUtcMs === 59_999;
+      for (let i = 0; i < 16; i++) cachedPrefix[i] = bytes[at + i];
       cachedZulu = zulu;
       cachedMinuteUtcMs = minuteUtcMs;
-      if (!constant) return instantOf(y, mo, d, h, mi, s, ms, zulu ? 0 : null);
+      if (!cacheValid) return instantOf(y, mo, d, h, mi, s, ms, zulu ? 0 : null);
     }
     let t = minuteUtcMs + s * 1000 + ms + clockOffsetMs;
     if (timeBasis === "gps") t = gpsToUtcMs(t);
     return t;
   }
 
-  /** The timestamp in text[at, end) (a cell of a larger chunk) → UTC ms; throws TimestampError. */
-  function parseSpan(text: string, at: number, end: number): number {
-    const fast = parseFixedLayout(text, at, end);
-    return fast === fast ? fast : parse(text.slice(at, end));
+  /** A short ASCII string into the scratch bytes; false when it does not fit or is not ASCII. */
+  function toScratch(text: string): boolean {
+    const n = text.length;
+    if (n > SCRATCH_BYTES) return false;
+    for (let i = 0; i < n; i++) {
+      const c = text.charCodeAt(i);
+      if (c > 127) return false;
+      scratch[i] = c;
+    }
+    return true;
+  }
+
+  /** The timestamp in bytes[at, end) (ASCII/UTF-8 cell of a larger chunk) → UTC ms; throws TimestampError. */
+  function parseBytes(bytes: Uint8Array, at: number, end: number): number {
+    const fast = parseFixedLayout(bytes, at, end);
+    return fast === fast ? fast : parse(UTF8.decode(bytes.subarray(at, end)));
   }
 
   function parse(text: string): number {
-    const fast = parseFixedLayout(text, 0, text.length);
-    if (fast === fast) return fast;
+    if (toScratch(text)) {
+      const fast = parseFixedLayout(scratch, 0, text.length);
+      if (fast === fast) return fast;
+    }
     let m = EXTENDED_RE.exec(text);
     if (m) {
       return finish(text, +m[1], +m[2], +m[3], m[4] ? +m[4] : 0, m[5] ? +m[5] : 0, m[6] ? +m[6] : 0, fractionToMs(m[7]), m[8]);
@@ -208,7 +241,7 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
     return finish(both, +d[1], +d[2], +d[3], +t[1], +t[2], t[3] ? +t[3] : 0, fractionToMs(t[4]), t[5]);
   }
 
-  return { parse, parseSpan, parseDateAndTime };
+  return { parse, parseBytes, parseDateAndTime };
 }
 
 /** One-off convenience; build a reader with createTimestampReader for many rows. */
