@@ -12,17 +12,21 @@ export function ConfirmSubmit({
   question,
   confirmLabel,
   variant = "danger",
+  what,
 }: {
   label: string;
   question: string;
   confirmLabel: string;
   variant?: ButtonVariant;
+  /** Read after the label by screen readers when rows repeat it, e.g. "Remove" + " Priya Lantern". */
+  what?: string;
 }) {
   const [asking, setAsking] = useState(false);
   if (!asking) {
     return (
       <Button variant={variant} onClick={() => setAsking(true)}>
         {label}
+        {what ? <span className="sr-only"> {what}</span> : null}
       </Button>
     );
   }

@@ -44,7 +44,7 @@ export function InvitationList({
               <form action={formAction}>
                 <input type="hidden" name="invitationId" value={inv.id} />
                 <input type="hidden" name="email" value={inv.email} />
-                <ConfirmSubmit label="Revoke" question={`Revoke the invitation for ${inv.email}?`} confirmLabel="Yes, revoke" />
+                <ConfirmSubmit label="Revoke" what={`invitation for ${inv.email}`} question={`Revoke the invitation for ${inv.email}?`} confirmLabel="Yes, revoke" />
               </form>
             </li>
           ))}

@@ -94,7 +94,7 @@ export function MemberTable({
                     <input type="hidden" name="userId" value={m.userId} />
                     <input type="hidden" name="memberName" value={m.name} />
                     <input type="hidden" name="intent" value="remove" />
-                    <ConfirmSubmit label="Remove" question={`Remove ${m.name}?`} confirmLabel="Yes, remove" />
+                    <ConfirmSubmit label="Remove" what={m.name} question={`Remove ${m.name}?`} confirmLabel="Yes, remove" />
                   </form>
                 ) : null}
               </div>
