@@ -118,6 +118,8 @@ export class CsvByteWriter {
   private inFlight: Promise<void> = Promise.resolve();
   private dayCached = NaN;
   private dayPrefix = Buffer.alloc(11);
+  private secondCached = NaN;
+  private readonly secondPrefix = new Uint8Array(20);
   private readonly textCache = new Map<string, Buffer>();
 
   /**
@@ -222,30 +224,42 @@ export class CsvByteWriter {
     this.pos += total;
   }
 
-  /** UTC ms as `yyyy-mm-ddThh:mm:ss.sssZ` (years 0–9999). */
+  /** UTC ms as `yyyy-mm-ddThh:mm:ss.sssZ` (years 0–9999); the part up to the second is cached. */
   isoTime(timeMs: number): void {
+    this.room(24);
+    const b = this.buf;
+    const second = Math.floor(timeMs / 1000);
+    const ms = timeMs - second * 1000;
+    if (second !== this.secondCached) this.cacheSecond(second);
+    const prefix = this.secondPrefix;
+    let p = this.pos;
+    for (let i = 0; i < 20; i++) b[p++] = prefix[i];
+    b[p++] = C_ZERO + Math.floor(ms / 100);
+    b[p++] = C_ZERO + (Math.floor(ms / 10) % 10);
+    b[p++] = C_ZERO + (ms % 10);
+    b[p++] = 90; // Z
+    this.pos = p;
+  }
+
+  /** `yyyy-mm-ddThh:mm:ss.` of a whole UTC second. */
+  private cacheSecond(second: number): void {
+    this.secondCached = second;
+    const timeMs = second * 1000;
     const day = Math.floor(timeMs / MS_PER_DAY);
     if (day !== this.dayCached) {
       this.dayCached = day;
       this.dayPrefix = Buffer.from(new Date(day * MS_PER_DAY).toISOString().slice(0, 11), "latin1");
     }
-    this.room(24);
-    this.buf.set(this.dayPrefix, this.pos);
-    this.pos += 11;
+    const b = this.secondPrefix;
+    b.set(this.dayPrefix, 0);
     let rest = timeMs - day * MS_PER_DAY;
     const h = Math.floor(rest / 3_600_000);
     rest -= h * 3_600_000;
     const mi = Math.floor(rest / 60_000);
     rest -= mi * 60_000;
     const sec = Math.floor(rest / 1000);
-    const ms = rest - sec * 1000;
-    const b = this.buf;
-    let p = this.pos;
-    b[p++] = C_ZERO + Math.floor(h / 10); b[p++] = C_ZERO + (h % 10); b[p++] = 58;
-    b[p++] = C_ZERO + Math.floor(mi / 10); b[p++] = C_ZERO + (mi % 10); b[p++] = 58;
-    b[p++] = C_ZERO + Math.floor(sec / 10); b[p++] = C_ZERO + (sec % 10); b[p++] = C_DOT;
-    b[p++] = C_ZERO + Math.floor(ms / 100); b[p++] = C_ZERO + (Math.floor(ms / 10) % 10); b[p++] = C_ZERO + (ms % 10);
-    b[p++] = 90;
-    this.pos = p;
+    b[11] = C_ZERO + Math.floor(h / 10); b[12] = C_ZERO + (h % 10); b[13] = 58;
+    b[14] = C_ZERO + Math.floor(mi / 10); b[15] = C_ZERO + (mi % 10); b[16] = 58;
+    b[17] = C_ZERO + Math.floor(sec / 10); b[18] = C_ZERO + (sec % 10); b[19] = C_DOT;
   }
 }

@@ -163,3 +163,22 @@ describe("CSV number output", () => {
     expect(lines).toEqual(expected);
   });
 });
+
+describe("CSV time output", () => {
+  it("prints ISO 8601 UTC with ms exactly like Date#toISOString", async () => {
+    const { CsvByteWriter } = await import("@/src/cli/csv-output");
+    const chunks: Buffer[] = [];
+    const w = new CsvByteWriter((b) => void chunks.push(Buffer.from(b)), 1 << 16);
+    const times: number[] = [];
+    let t = Date.UTC(2026, 4, 4, 23, 59, 58, 990);
+    for (let i = 0; i < 3000; i++) times.push((t += 7)); // runs across midnight
+    for (let i = 0; i < 3000; i++) times.push(Math.round((i * 7_919_333_777) % 4e12) - 1e12); // 1938–2096
+    for (const ms of times) {
+      w.isoTime(ms);
+      w.byte(10);
+      if (w.nearlyFull) await w.handOff();
+    }
+    await w.finish();
+    expect(Buffer.concat(chunks).toString("latin1").split("\n").slice(0, -1)).toEqual(times.map((ms) => new Date(ms).toISOString()));
+  });
+});

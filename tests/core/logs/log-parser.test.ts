@@ -191,3 +191,19 @@ describe("fast scanner against papaparse", () => {
     expect(Array.from(plain.readings.heightM!)).toEqual(kept.map((r) => Number(r[4])));
   });
 });
+
+describe("byte chunks", () => {
+  it("reads UTF-8 bytes split anywhere, even inside a character, with a BOM", () => {
+    const text = "\uFEFFtime,field,line\n2026-05-04T09:00:00Z,48310.5,Línea Süd\n2026-05-04T09:00:01Z,48311.5,Línea Süd\n2026-05-04T09:00:02Z,4831x,Ост\n";
+    const bytes = new TextEncoder().encode(text);
+    for (const size of [1, 2, 3, 5, 1000]) {
+      const p = createLogStreamParser();
+      for (let i = 0; i < bytes.length; i += size) p.push(bytes.subarray(i, i + size));
+      const r = p.end();
+      expect(r.header).toEqual(["time", "field", "line"]);
+      expect(r.readings!.line).toEqual(["Línea Süd", "Línea Süd"]);
+      expect(Array.from(r.readings!.fieldNt)).toEqual([48310.5, 48311.5]);
+      expect(r.rejected[0]).toMatchObject({ line: 4, column: "field", value: "4831x" });
+    }
+  });
+});
