@@ -12,13 +12,13 @@ import { pipeline } from "node:stream/promises";
 import { Transform, type Readable } from "node:stream";
 import { getEnv } from "../env";
 import { FileTooLargeError } from "./errors";
+import { fsyncDir, originalsDir as originalsIn, STORAGE_KEY_RE, tempDir as tempIn } from "./layout";
 
 import { MAX_UPLOAD_BYTES } from "./limits";
 
 export { MAX_UPLOAD_BYTES } from "./limits";
 /** Bytes kept from the start of a file for sniffing (binary check, header line). */
 const HEAD_BYTES = 64 * 1024;
-const KEY_RE = /^[0-9a-f-]{36}$/;
 
 export interface StagedFile {
   tempPath: string;
@@ -37,16 +37,16 @@ function uploadRoot(): string {
 }
 
 function tempDir(): string {
-  return path.join(uploadRoot(), "tmp");
+  return tempIn(uploadRoot());
 }
 
 function originalsDir(): string {
-  return path.join(uploadRoot(), "originals");
+  return originalsIn(uploadRoot());
 }
 
 /** Path of a stored original; throws on a key this module did not make. */
 export function storedPath(storageKey: string): string {
-  if (!KEY_RE.test(storageKey)) throw new Error("invalid storage key");
+  if (!STORAGE_KEY_RE.test(storageKey)) throw new Error("invalid storage key");
   return path.join(originalsDir(), storageKey);
 }
 
@@ -125,19 +125,6 @@ export async function stageUpload(source: Readable | AsyncIterable<Uint8Array>, 
     looksBinary: sawNul || controlCharShare(head) > 0.01,
     utf8,
   };
-}
-
-function fsyncDir(dir: string): void {
-  try {
-    const fd = fs.openSync(dir, "r");
-    try {
-      fs.fsyncSync(fd);
-    } finally {
-      fs.closeSync(fd);
-    }
-  } catch {
-    /* some filesystems refuse fsync on a directory; the rename itself is atomic */
-  }
 }
 
 /** Moves a staged file into place under `storageKey` (atomic rename in the same filesystem). */

@@ -1,0 +1,31 @@
+/**
+ * Where originals live under UPLOAD_DIR, without `server-only` so scripts (backup, demo loader)
+ * share it: `originals/<key>` for committed files, `tmp/<uuid>.part` while an upload streams in.
+ */
+import fs from "node:fs";
+import path from "node:path";
+
+/** Generated storage keys (randomUUID): never derived from an uploaded file name. */
+export const STORAGE_KEY_RE = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/;
+
+export function originalsDir(uploadDir: string): string {
+  return path.join(uploadDir, "originals");
+}
+
+export function tempDir(uploadDir: string): string {
+  return path.join(uploadDir, "tmp");
+}
+
+/** fsync a directory so a rename into it survives a crash; a filesystem that refuses is ignored (the rename is atomic anyway). */
+export function fsyncDir(dir: string): void {
+  try {
+    const fd = fs.openSync(dir, "r");
+    try {
+      fs.fsyncSync(fd);
+    } finally {
+      fs.closeSync(fd);
+    }
+  } catch {
+    /* some filesystems refuse fsync on a directory */
+  }
+}
