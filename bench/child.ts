@@ -1,4 +1,4 @@
-/** Runs one bench case in this fresh process and prints one JSON line: rows, seconds, peakRssMb. */
+/** Runs one bench case in this fresh process and prints one JSON line: rows, seconds (wall), cpuSeconds, peakRssMb. */
 import { pathToFileURL } from "node:url";
 import type { BenchCase, BenchContext } from "./bench-case";
 
@@ -9,12 +9,15 @@ async function main(): Promise<void> {
   const originalWrite = process.stderr.write.bind(process.stderr);
   process.stderr.write = (() => true) as typeof process.stderr.write; // the CLI's summary lines are not bench output
   const start = process.hrtime.bigint();
+  const cpuStart = process.cpuUsage();
   const result = await mod.default.run(ctx);
   const seconds = Number(process.hrtime.bigint() - start) / 1e9;
+  const cpu = process.cpuUsage(cpuStart);
+  const cpuSeconds = (cpu.user + cpu.system) / 1e6; // all threads of this process, incl. the I/O pool
   const peakRssMb = process.resourceUsage().maxRSS / 1024; // maxRSS is in KiB
   process.stderr.write = originalWrite;
   const rows = result && "rows" in result ? result.rows : mod.default.rows ? await mod.default.rows(ctx) : NaN;
-  process.stdout.write(JSON.stringify({ name: mod.default.name, rows, seconds, peakRssMb }) + "\n");
+  process.stdout.write(JSON.stringify({ name: mod.default.name, rows, seconds, cpuSeconds, peakRssMb }) + "\n");
 }
 
 main().catch((err: unknown) => {

@@ -3,10 +3,12 @@
  * bench/cases/ in a fresh child process REPEATS times, reporting the median time and the median of
  * the peak resident memory (process.resourceUsage().maxRSS in the child). Time is measured inside
  * the child around the case's work (process start-up and TypeScript loading excluded, for every
- * case alike). Prints a table, then one JSON line per case, then the targets.
+ * case alike); CPU seconds (user + system of the child) are shown too, since wall time swings
+ * when other work shares the machine. Prints a table, then one JSON line per case, then the targets.
  * Add a case by adding a module to CASES.
  */
 import { spawnSync } from "node:child_process";
+import os from "node:os";
 import path from "node:path";
 import { generateBenchData } from "./generate";
 
@@ -22,6 +24,7 @@ interface Sample {
   name: string;
   rows: number;
   seconds: number;
+  cpuSeconds: number;
   peakRssMb: number;
 }
 
@@ -44,6 +47,7 @@ function runChild(casePath: string, ctx: object): Sample {
 function main(): void {
   const started = Date.now();
   const { baseFile, roverFile } = generateBenchData(OUT_DIR);
+  process.stdout.write(`load average ${os.loadavg().map((l) => l.toFixed(1)).join(" ")}; ${os.cpus().length} CPUs\n`);
   process.stdout.write(`data ready in ${((Date.now() - started) / 1000).toFixed(1)} s; ${REPEATS} runs per case\n`);
   const ctx = { baseFile, roverFile, outDir: OUT_DIR };
   const results: Sample[] = [];
@@ -54,13 +58,22 @@ function main(): void {
       name: samples[0].name,
       rows: samples[0].rows,
       seconds: median(samples.map((s) => s.seconds)),
+      cpuSeconds: median(samples.map((s) => s.cpuSeconds)),
       peakRssMb: median(samples.map((s) => s.peakRssMb)),
     });
     process.stdout.write(`  ${samples[0].name}: ${samples.map((s) => s.seconds.toFixed(2)).join(", ")} s\n`);
   }
   const baseline = results[0];
-  const rows = results.map((r) => [r.name, String(r.rows), r.seconds.toFixed(3), (r.seconds / baseline.seconds).toFixed(2), r.peakRssMb.toFixed(0)]);
-  const head = ["case", "rows", "median s", "× baseline", "peak RSS MB"];
+  const rows = results.map((r) => [
+    r.name,
+    String(r.rows),
+    r.seconds.toFixed(3),
+    (r.seconds / baseline.seconds).toFixed(2),
+    r.cpuSeconds.toFixed(3),
+    (r.cpuSeconds / baseline.cpuSeconds).toFixed(2),
+    r.peakRssMb.toFixed(0),
+  ]);
+  const head = ["case", "rows", "median s", "× baseline", "median CPU s", "CPU × baseline", "peak RSS MB"];
   const widths = head.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
   const fmt = (cells: string[]) => cells.map((c, i) => (i === 0 ? c.padEnd(widths[i]) : c.padStart(widths[i]))).join("  ");
   process.stdout.write("\n" + fmt(head) + "\n" + fmt(widths.map((w) => "-".repeat(w))) + "\n" + rows.map(fmt).join("\n") + "\n\n");

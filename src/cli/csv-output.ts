@@ -104,6 +104,17 @@ const C_ZERO = 48;
 const C_MINUS = 45;
 const C_DOT = 46;
 const INT32_LIMIT = 2_147_483_647;
+const DIGIT_SCRATCH = 16;
+/** "000" … "999" as ASCII bytes, three per number. */
+const DIGITS3 = (() => {
+  const t = new Uint8Array(3000);
+  for (let i = 0; i < 1000; i++) {
+    t[i * 3] = C_ZERO + Math.floor(i / 100);
+    t[i * 3 + 1] = C_ZERO + (Math.floor(i / 10) % 10);
+    t[i * 3 + 2] = C_ZERO + (i % 10);
+  }
+  return t;
+})();
 
 /**
  * CSV rows straight into a byte buffer: numbers, ISO times and cells are written as ASCII digits
@@ -120,6 +131,7 @@ export class CsvByteWriter {
   private dayPrefix = Buffer.alloc(11);
   private secondCached = NaN;
   private readonly secondPrefix = new Uint8Array(20);
+  private readonly digitScratch = new Uint8Array(DIGIT_SCRATCH);
   private readonly textCache = new Map<string, Buffer>();
 
   /**
@@ -203,25 +215,35 @@ export class CsvByteWriter {
     }
     let v = Math.round(scaledFloat);
     if (v === 0) negative = false;
-    let n = v < 10 ? 1 : v < 100 ? 2 : v < 1e3 ? 3 : v < 1e4 ? 4 : v < 1e5 ? 5 : v < 1e6 ? 6 : v < 1e7 ? 7 : v < 1e8 ? 8 : v < 1e9 ? 9 : 10;
-    if (n < decimals + 1) n = decimals + 1;
-    const total = n + (decimals > 0 ? 1 : 0) + (negative ? 1 : 0);
-    this.room(total);
-    const b = this.buf;
-    let p = this.pos + total;
-    for (let k = 0; k < decimals; k++) {
-      const q = (v / 10) | 0;
-      b[--p] = C_ZERO + v - q * 10;
+    // digits of v into the scratch from the right, three at a time (short division chains)
+    const tmp = this.digitScratch;
+    let t = DIGIT_SCRATCH;
+    while (v >= 1000) {
+      const q = (v / 1000) | 0;
+      const r = (v - q * 1000) * 3;
+      tmp[--t] = DIGITS3[r + 2];
+      tmp[--t] = DIGITS3[r + 1];
+      tmp[--t] = DIGITS3[r];
       v = q;
     }
-    if (decimals > 0) b[--p] = C_DOT;
-    do {
-      const q = (v / 10) | 0;
-      b[--p] = C_ZERO + v - q * 10;
-      v = q;
-    } while (v > 0);
-    if (negative) b[--p] = C_MINUS;
-    this.pos += total;
+    const r = v * 3;
+    tmp[--t] = DIGITS3[r + 2];
+    if (v >= 10) tmp[--t] = DIGITS3[r + 1];
+    if (v >= 100) tmp[--t] = DIGITS3[r];
+    while (DIGIT_SCRATCH - t < decimals + 1) tmp[--t] = C_ZERO;
+    const count = DIGIT_SCRATCH - t;
+    const total = count + (decimals > 0 ? 1 : 0) + (negative ? 1 : 0);
+    this.room(total);
+    const b = this.buf;
+    let p = this.pos;
+    if (negative) b[p++] = C_MINUS;
+    const wholeEnd = DIGIT_SCRATCH - decimals;
+    for (let i = t; i < wholeEnd; i++) b[p++] = tmp[i];
+    if (decimals > 0) {
+      b[p++] = C_DOT;
+      for (let i = wholeEnd; i < DIGIT_SCRATCH; i++) b[p++] = tmp[i];
+    }
+    this.pos = p;
   }
 
   /** UTC ms as `yyyy-mm-ddThh:mm:ss.sssZ` (years 0–9999); the part up to the second is cached. */
