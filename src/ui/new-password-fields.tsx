@@ -1,10 +1,10 @@
 "use client";
 /**
- * "New password" + "Confirm password", checked as you type (length rule, match) and again by
- * the server. Field names: `password`, `confirm`.
+ * "New password" + "Confirm password", checked as you type with the server's own password rule
+ * (NewPasswordSchema) and for a match, then again by the server. Field names: `password`, `confirm`.
  */
 import { useState } from "react";
-import { MIN_PASSWORD_LENGTH as PASSWORD_MIN_LENGTH } from "@/src/server/auth/schema";
+import { MIN_PASSWORD_LENGTH, NewPasswordSchema } from "@/src/server/auth/schema";
 import { TextField } from "./field";
 
 export function NewPasswordFields({ errors }: { errors: { password?: string[]; confirm?: string[] } }) {
@@ -12,7 +12,7 @@ export function NewPasswordFields({ errors }: { errors: { password?: string[]; c
   const [confirm, setConfirm] = useState("");
   const [touched, setTouched] = useState({ password: false, confirm: false });
 
-  const tooShort = touched.password && password.length > 0 && password.length < PASSWORD_MIN_LENGTH;
+  const passwordIssue = touched.password && password.length > 0 ? NewPasswordSchema.safeParse(password).error?.issues[0]?.message : undefined;
   const mismatch = touched.confirm && confirm.length > 0 && confirm !== password;
 
   return (
@@ -24,12 +24,12 @@ export function NewPasswordFields({ errors }: { errors: { password?: string[]; c
         type="password"
         autoComplete="new-password"
         required
-        minLength={PASSWORD_MIN_LENGTH}
+        minLength={MIN_PASSWORD_LENGTH}
         value={password}
         onChange={(e) => setPassword(e.target.value)}
         onBlur={() => setTouched((t) => ({ ...t, password: true }))}
-        hint={`At least ${PASSWORD_MIN_LENGTH} characters.`}
-        errors={tooShort ? [`Use at least ${PASSWORD_MIN_LENGTH} characters.`] : errors.password}
+        hint={`At least ${MIN_PASSWORD_LENGTH} characters.`}
+        errors={passwordIssue ? [passwordIssue] : errors.password}
       />
       <TextField
         id="confirm"

@@ -1,6 +1,7 @@
 "use client";
 
 import { useActionState, useState } from "react";
+import { EmailSchema } from "@/src/server/auth/schema";
 import { IDLE, fieldErrorsOf, formErrorOf, successOf, type ActionState } from "@/src/ui/action-state";
 import { SelectField, TextField } from "@/src/ui/field";
 import { FormError, FormSuccess } from "@/src/ui/form-message";
@@ -13,11 +14,15 @@ export function InviteForm({ action }: { action: (prev: ActionState, formData: F
   const [role, setRole] = useState("crew");
   const [state, formAction] = useActionState(async (prev: ActionState, formData: FormData) => {
     const next = await action(prev, formData);
-    if (next.status === "success") setEmail("");
+    if (next.status === "success") {
+      setEmail("");
+      setEmailTouched(false);
+    }
     return next;
   }, IDLE);
   const errors = fieldErrorsOf(state);
-  const emailLooksWrong = email.length > 3 && !/^[^\s@]+@[^\s@]+\.[^\s@]+$/.test(email.trim());
+  const [emailTouched, setEmailTouched] = useState(false);
+  const emailIssue = emailTouched && email.length > 0 ? EmailSchema.safeParse(email).error?.issues[0]?.message : undefined;
   return (
     <form action={formAction} onSubmit={submitWithoutReset(formAction)} className="space-y-4" noValidate>
       <FormError message={formErrorOf(state)} />
@@ -32,7 +37,8 @@ export function InviteForm({ action }: { action: (prev: ActionState, formData: F
           required
           value={email}
           onChange={(e) => setEmail(e.target.value)}
-          errors={emailLooksWrong ? ["Enter a valid e-mail address."] : errors.email}
+          onBlur={() => setEmailTouched(true)}
+          errors={emailIssue ? [emailIssue] : errors.email}
         />
         <SelectField id="invite-role" name="role" label="Role" value={role} onChange={(e) => setRole(e.target.value)} options={ROLE_OPTIONS} errors={errors.role} />
         <div className="sm:pt-6">
