@@ -131,8 +131,17 @@ export function applyDamages(text: string, damages: readonly Damage[]): string {
 /** Cut points (sorted, within the text) from random numbers: any split of a text into chunks. */
 export const splitArb = fc.array(fraction, { maxLength: 12 });
 
-export function splitText(text: string, fractions: readonly number[]): string[] {
-  const cuts = fractions.map((f) => Math.floor(f * (text.length + 1))).sort((a, b) => a - b);
+const isLowSurrogate = (c: number) => c >= 0xdc00 && c <= 0xdfff;
+const isHighSurrogate = (c: number) => c >= 0xd800 && c <= 0xdbff;
+
+/**
+ * Splits a string into chunks at code-point boundaries (a cut inside a surrogate pair moves one
+ * place on); `{ anyCodeUnit: true }` cuts anywhere, even between the halves of a pair.
+ */
+export function splitText(text: string, fractions: readonly number[], opts: { anyCodeUnit?: boolean } = {}): string[] {
+  const keepPairs = (c: number) =>
+    !opts.anyCodeUnit && c > 0 && c < text.length && isHighSurrogate(text.charCodeAt(c - 1)) && isLowSurrogate(text.charCodeAt(c)) ? c + 1 : c;
+  const cuts = fractions.map((f) => keepPairs(Math.floor(f * (text.length + 1)))).sort((a, b) => a - b);
   const chunks: string[] = [];
   let at = 0;
   for (const c of cuts) {
@@ -140,6 +149,19 @@ export function splitText(text: string, fractions: readonly number[]): string[] 
     at = c;
   }
   chunks.push(text.slice(at));
+  return chunks;
+}
+
+/** Splits bytes anywhere (inside a UTF-8 sequence too), as a network stream may deliver them. */
+export function splitBytes(bytes: Uint8Array, fractions: readonly number[]): Uint8Array[] {
+  const cuts = fractions.map((f) => Math.floor(f * (bytes.length + 1))).sort((a, b) => a - b);
+  const chunks: Uint8Array[] = [];
+  let at = 0;
+  for (const c of cuts) {
+    chunks.push(bytes.subarray(at, c));
+    at = c;
+  }
+  chunks.push(bytes.subarray(at));
   return chunks;
 }
 

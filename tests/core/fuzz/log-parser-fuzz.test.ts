@@ -23,6 +23,7 @@ import {
   printRunLog,
   runProperty,
   splitArb,
+  splitBytes,
   splitText,
   withinTime,
   type Damage,
@@ -62,7 +63,7 @@ function parseWhole(text: string, options?: LogParseOptions) {
   return outcomeOf(() => withinTime(() => parseLogText(text, options)));
 }
 
-function parseChunks(chunks: readonly string[], options?: LogParseOptions) {
+function parseChunks(chunks: readonly (string | Uint8Array)[], options?: LogParseOptions) {
   return outcomeOf(() =>
     withinTime(() => {
       const p = createLogStreamParser(options);
@@ -173,6 +174,17 @@ describe("random valid logs", () => {
     );
   });
 
+  it("its UTF-8 bytes, split anywhere (inside a character too), give the same result as the whole text", () => {
+    runProperty(
+      "valid byte chunks",
+      fc.property(validLogArb(), splitArb, (log, cuts) => {
+        const chunks = splitBytes(new TextEncoder().encode(log.text), cuts);
+        expect(comparable(parseChunks(chunks))).toEqual(comparable(parseWhole(log.text)));
+      }),
+      BUDGET,
+    );
+  });
+
   it("one character per chunk gives the same result as the whole text", () => {
     runProperty(
       "valid char by char",
@@ -231,6 +243,24 @@ describe("CRLF logs with quoted cells", () => {
   });
 });
 
+describe("text chunks cut inside a surrogate pair", () => {
+  // Finding F5 in /tmp/fuzz-findings.md: push(string) encodes each chunk to UTF-8 on its own, so
+  // a chunk that ends between the two halves of a surrogate pair (e.g. "𐀀" cut after one code
+  // unit) turns both halves into U+FFFD; the documented "any split, even mid-character" does not
+  // hold for text chunks. Expected to fail until the parser carries a trailing high surrogate over.
+  it.fails("give the same result as the whole text", () => {
+    runProperty(
+      "surrogate split",
+      fc.property(fc.constantFrom("time,field,station\n2026-05-04T09:00:00Z,48000,\u{1F6F0}A\n", "\u{10000}time,field\n"), (text) => {
+        const cut = text.search(/[\uD800-\uDBFF]/) + 1;
+        expect(comparable(parseChunks([text.slice(0, cut), text.slice(cut)]))).toEqual(comparable(parseWhole(text)));
+      }),
+      { numRuns: 10, timeLimitMs: 1000, minRuns: 1 },
+      { endOnFailure: true },
+    );
+  });
+});
+
 describe("damaged valid logs", () => {
   it("deleted, duplicated or swapped lines: every accepted reading is the row written on its line", () => {
     runProperty(
@@ -263,12 +293,14 @@ describe("damaged valid logs", () => {
     );
   });
 
-  it("damaged logs give the same result whole and in any chunks", () => {
+  it("damaged logs give the same result whole and in any text or byte chunks", () => {
     runProperty(
       "damage chunked",
       fc.property(validLogArb(), damagesArb, splitArb, (log, damages, cuts) => {
         const text = applyDamages(log.text, damages);
-        expect(comparable(parseChunks(splitText(text, cuts)))).toEqual(comparable(parseWhole(text)));
+        const whole = comparable(parseWhole(text));
+        expect(comparable(parseChunks(splitText(text, cuts)))).toEqual(whole);
+        expect(comparable(parseChunks(splitBytes(new TextEncoder().encode(text), cuts)))).toEqual(whole);
       }),
       { numRuns: 400, timeLimitMs: 3000 },
     );
@@ -288,6 +320,18 @@ const logishArb = fc
   .map((parts) => parts.join(""));
 
 describe("random text and bytes", () => {
+  it("raw random bytes pushed as bytes give a consistent parse or a LogFormatError, in one piece and split anywhere alike", () => {
+    runProperty(
+      "raw bytes",
+      fc.property(fc.uint8Array({ maxLength: 2048 }), splitArb, (bytes, cuts) => {
+        const whole = parseChunks([bytes]);
+        expectParseOrFormatError(new TextDecoder().decode(bytes), whole);
+        expect(comparable(parseChunks(splitBytes(bytes, cuts)))).toEqual(comparable(whole));
+      }),
+      { numRuns: 300, timeLimitMs: 2500 },
+    );
+  });
+
   it("random bytes (as UTF-8 and as Latin-1) give a consistent parse or a LogFormatError, whole and chunked alike", () => {
     runProperty(
       "random bytes",
