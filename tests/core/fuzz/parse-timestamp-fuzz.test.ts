@@ -245,6 +245,53 @@ describe("naive wall-clock time in a zone reads back to the instant", () => {
     expect(repeatedWallTimes).toBeGreaterThan(0);
   });
 
+  it("one reader over many nearby rows (as in a log): each row reads back, whatever the rows before it", () => {
+    // the reader keeps per-minute state between calls; rows in the same or adjacent minutes, in a
+    // mix of spellings (naive in the zone, Z, written offset), around DST changes, must not leak
+    const changeCache = new Map<string, number[]>();
+    const rowsArb = fc.array(
+      fc.record({
+        deltaMs: fc.integer({ min: -5 * MS_PER_MIN, max: 95 * MS_PER_MIN }),
+        spelling: fc.constantFrom("naive", "naive", "naiveSlash", "zulu", "offset"),
+        ms: fc.boolean(),
+      }),
+      { minLength: 2, maxLength: 40 },
+    );
+    runProperty(
+      "reader state across rows",
+      fc.property(fc.constantFrom(...ZONES), fc.integer({ min: 1971, max: 2040 }), fc.nat(), rowsArb, fc.boolean(), (timeZone, year, pick, rows, sorted) => {
+        const key = `${timeZone} ${year}`;
+        if (!changeCache.has(key)) changeCache.set(key, changeNear(timeZone, year));
+        const changes = changeCache.get(key)!;
+        const base = changes.length > 0 ? changes[pick % changes.length] : Date.UTC(year, 5, 1);
+        const reader = createTimestampReader({ timeZone });
+        const list = sorted ? [...rows].sort((a, b) => a.deltaMs - b.deltaMs) : rows;
+        for (const row of list) {
+          const instantMs = base + (row.ms ? row.deltaMs : row.deltaMs - (((row.deltaMs % 1000) + 1000) % 1000));
+          let text: string;
+          let expected: number;
+          const frac = row.ms ? `.${pad(((instantMs % 1000) + 1000) % 1000, 3)}` : "";
+          if (row.spelling === "zulu" || row.spelling === "offset") {
+            const offMin = row.spelling === "zulu" ? 0 : 330;
+            const l = fieldsOf(instantMs + offMin * MS_PER_MIN);
+            text = `${pad(l.year, 4)}-${pad(l.month, 2)}-${pad(l.day, 2)}T${pad(l.hour, 2)}:${pad(l.minute, 2)}:${pad(l.second, 2)}${frac}${row.spelling === "zulu" ? "Z" : "+05:30"}`;
+            expected = instantMs;
+          } else {
+            const wall = wallClockMs(timeZone, instantMs);
+            const l = fieldsOf(wall);
+            const sep = row.spelling === "naiveSlash" ? "/" : "-";
+            text = `${pad(l.year, 4)}${sep}${pad(l.month, 2)}${sep}${pad(l.day, 2)} ${pad(l.hour, 2)}:${pad(l.minute, 2)}:${pad(l.second, 2)}${frac}`;
+            expected = earliestInstantForWall(timeZone, wall, instantMs);
+          }
+          expect(reader.parse(text), `${text} in ${timeZone}`).toBe(expected);
+          const bytes = new TextEncoder().encode(` ${text},`);
+          expect(reader.parseBytes(bytes, 1, bytes.length - 1), `bytes of ${text} in ${timeZone}`).toBe(expected);
+        }
+      }),
+      { numRuns: 200, timeLimitMs: 3000, minRuns: 10 },
+    );
+  });
+
   it("an offset written in the text wins over the zone", () => {
     runProperty(
       "offset beats zone",
@@ -358,10 +405,17 @@ describe("random text", () => {
     createTimestampReader({ timeBasis: "gps", clockOffsetS: -1.5 }),
   ];
 
-  it("parse gives an integer instant or a TimestampError", () => {
+  it("parse gives an integer instant or a TimestampError, and parseBytes agrees", () => {
     runProperty(
       "garbage parse",
-      fc.property(timeishArb, fc.nat({ max: readers.length - 1 }), (text, r) => expectNumberOrTimestampError(() => readers[r].parse(text), text)),
+      fc.property(timeishArb, fc.nat({ max: readers.length - 1 }), (text, r) => {
+        expectNumberOrTimestampError(() => readers[r].parse(text), text);
+        // the byte form, on a cell inside a larger buffer, must agree with the text form
+        const bytes = new TextEncoder().encode(`;${text};`);
+        const fromBytes = outcomeOf(() => readers[r].parseBytes(bytes, 1, bytes.length - 1));
+        const fromText = outcomeOf(() => readers[r].parse(new TextDecoder().decode(bytes.subarray(1, bytes.length - 1))));
+        expect(fromBytes.ok ? fromBytes.value : String(fromBytes.error)).toEqual(fromText.ok ? fromText.value : String(fromText.error));
+      }),
       { numRuns: 500, timeLimitMs: 2500 },
     );
   });
