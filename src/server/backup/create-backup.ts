@@ -95,9 +95,9 @@ export async function createBackup(opts: CreateBackupOptions): Promise<BackupRes
     const originals: BackupManifest["originals"] = [];
     for (const ref of facts.files) {
       if (!StorageKey.safeParse(ref.storageKey).success) throw new BackupError(`the database names an original "${ref.storageKey}" that is not a generated storage key`);
-      const source = path.join(uploadDir, ref.folder, ref.storageKey);
+      const source = path.join(ref.dirOf(uploadDir), ref.storageKey);
       if (!fs.existsSync(source)) {
-        throw new BackupError(`original file ${ref.storageKey} is missing from ${path.join(uploadDir, ref.folder)} although the database refers to it (check UPLOAD_DIR)`);
+        throw new BackupError(`original file ${ref.storageKey} is missing from ${ref.dirOf(uploadDir)} although the database refers to it (check UPLOAD_DIR)`);
       }
       const rel = `${ORIGINALS_DIR}/${ref.storageKey}`;
       const copied = await copyAndHash(source, path.join(staging, rel));

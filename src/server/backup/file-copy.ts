@@ -26,15 +26,4 @@ export function fsyncFile(file: string): void {
   }
 }
 
-export function fsyncDir(dir: string): void {
-  try {
-    const fd = fs.openSync(dir, "r");
-    try {
-      fs.fsyncSync(fd);
-    } finally {
-      fs.closeSync(fd);
-    }
-  } catch {
-    /* some filesystems refuse fsync on a directory; rename itself stays atomic */
-  }
-}
+export { fsyncDir } from "../storage/layout";

@@ -10,6 +10,7 @@
 import fs from "node:fs";
 import path from "node:path";
 import { z } from "zod";
+import { STORAGE_KEY_RE } from "../storage/layout";
 import { BackupError } from "./errors";
 
 export const MANIFEST_FILE = "manifest.json";
@@ -19,7 +20,7 @@ export const BACKUP_FORMAT = "fieldtide-backup";
 
 const Sha256 = z.string().regex(/^[0-9a-f]{64}$/, "expected a SHA-256 hex digest");
 /** Generated storage keys (UUIDs); anything else never becomes a path. */
-export const StorageKey = z.string().regex(/^[0-9a-f-]{36}$/, "expected a generated storage key");
+export const StorageKey = z.string().regex(STORAGE_KEY_RE, "expected a generated storage key");
 
 export const ManifestSchema = z.object({
   format: z.literal(BACKUP_FORMAT),

@@ -20,6 +20,7 @@ import { randomUUID } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
 import Database from "better-sqlite3";
+import { originalsDir as originalsDirOf, tempDir as tempDirOf } from "../storage/layout";
 import { BackupError } from "./errors";
 import { copyAndHash, fsyncDir, sha256File } from "./file-copy";
 import { readManifest, SNAPSHOT_FILE, type BackupManifest } from "./manifest";
@@ -105,8 +106,8 @@ export async function restoreBackup(opts: RestoreOptions): Promise<RestoreResult
   }
   await verifyBackupFiles(fromDir, manifest);
 
-  const originalsDir = path.join(uploadDir, "originals");
-  const tmpDir = path.join(uploadDir, "tmp");
+  const originalsDir = originalsDirOf(uploadDir);
+  const tmpDir = tempDirOf(uploadDir);
   const toCopy: BackupManifest["originals"] = [];
   let keptFiles = 0;
   for (const o of manifest.originals) {

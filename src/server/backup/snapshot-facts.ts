@@ -1,11 +1,12 @@
 /** Facts read from a database file for the manifest and for checking a restore: tables, row counts, migrations, referenced files. */
 import type Database from "better-sqlite3";
+import { originalsDir } from "../storage/layout";
 
 /**
  * Columns that name a file under UPLOAD_DIR (see migrations/0002_field_logs.ts: field_logs.storage_key
  * is the file name under UPLOAD_DIR/originals, field_logs.sha256 the hex digest of its bytes).
  */
-export const FILE_REFERENCES = [{ table: "field_logs", keyColumn: "storage_key", sha256Column: "sha256", folder: "originals" }] as const;
+export const FILE_REFERENCES = [{ table: "field_logs", keyColumn: "storage_key", sha256Column: "sha256", dirOf: originalsDir }] as const;
 
 const KNEX_MIGRATIONS = "knex_migrations";
 
@@ -39,7 +40,8 @@ export interface ReferencedFile {
   storageKey: string;
   /** Digest recorded when the file was uploaded. */
   sha256: string;
-  folder: string;
+  /** Folder of the file under a given UPLOAD_DIR. */
+  dirOf: (uploadDir: string) => string;
 }
 
 /** Files the database refers to; a table or column not there yet (older migration level) contributes none. */
@@ -53,7 +55,7 @@ export function referencedFiles(db: Database.Database): ReferencedFile[] {
     const rows = db
       .prepare(`SELECT ${quoteIdent(ref.keyColumn)} AS k, ${quoteIdent(ref.sha256Column)} AS s FROM ${quoteIdent(ref.table)} ORDER BY 1`)
       .all() as { k: string; s: string }[];
-    for (const r of rows) out.push({ storageKey: r.k, sha256: r.s, folder: ref.folder });
+    for (const r of rows) out.push({ storageKey: r.k, sha256: r.s, dirOf: ref.dirOf });
   }
   return out;
 }
