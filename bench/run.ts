@@ -50,19 +50,21 @@ function main(): void {
   process.stdout.write(`load average ${os.loadavg().map((l) => l.toFixed(1)).join(" ")}; ${os.cpus().length} CPUs\n`);
   process.stdout.write(`data ready in ${((Date.now() - started) / 1000).toFixed(1)} s; ${REPEATS} runs per case\n`);
   const ctx = { baseFile, roverFile, outDir: OUT_DIR };
-  const results: Sample[] = [];
-  for (const c of CASES) {
-    const samples: Sample[] = [];
-    for (let i = 0; i < REPEATS; i++) samples.push(runChild(c, ctx));
-    results.push({
-      name: samples[0].name,
-      rows: samples[0].rows,
-      seconds: median(samples.map((s) => s.seconds)),
-      cpuSeconds: median(samples.map((s) => s.cpuSeconds)),
-      peakRssMb: median(samples.map((s) => s.peakRssMb)),
-    });
-    process.stdout.write(`  ${samples[0].name}: ${samples.map((s) => s.seconds.toFixed(2)).join(", ")} s\n`);
+  // rounds interleave the cases (baseline, case 2, …, baseline, …) so that each sees the same load
+  const samples: Sample[][] = CASES.map(() => []);
+  for (let round = 0; round < REPEATS; round++) {
+    CASES.forEach((c, i) => samples[i].push(runChild(c, ctx)));
   }
+  const results: Sample[] = samples.map((runs) => ({
+    name: runs[0].name,
+    rows: runs[0].rows,
+    seconds: median(runs.map((s) => s.seconds)),
+    cpuSeconds: median(runs.map((s) => s.cpuSeconds)),
+    peakRssMb: median(runs.map((s) => s.peakRssMb)),
+  }));
+  samples.forEach((runs) => {
+    process.stdout.write(`  ${runs[0].name}: ${runs.map((s) => `${s.seconds.toFixed(2)} s (CPU ${s.cpuSeconds.toFixed(2)})`).join(", ")}\n`);
+  });
   const baseline = results[0];
   const rows = results.map((r) => [
     r.name,

@@ -104,7 +104,6 @@ const C_ZERO = 48;
 const C_MINUS = 45;
 const C_DOT = 46;
 const INT32_LIMIT = 2_147_483_647;
-const DIGIT_SCRATCH = 16;
 /** "000" … "999" as ASCII bytes, three per number. */
 const DIGITS3 = (() => {
   const t = new Uint8Array(3000);
@@ -131,7 +130,6 @@ export class CsvByteWriter {
   private dayPrefix = Buffer.alloc(11);
   private secondCached = NaN;
   private readonly secondPrefix = new Uint8Array(20);
-  private readonly digitScratch = new Uint8Array(DIGIT_SCRATCH);
   private readonly textCache = new Map<string, Buffer>();
 
   /**
@@ -213,37 +211,53 @@ export class CsvByteWriter {
       this.cell(x.toFixed(decimals)); // large magnitudes and ±Infinity: rare, exact
       return;
     }
-    let v = Math.round(scaledFloat);
+    const v = Math.round(scaledFloat);
     if (v === 0) negative = false;
-    // digits of v into the scratch from the right, three at a time (short division chains)
-    const tmp = this.digitScratch;
-    let t = DIGIT_SCRATCH;
-    while (v >= 1000) {
-      const q = (v / 1000) | 0;
-      const r = (v - q * 1000) * 3;
-      tmp[--t] = DIGITS3[r + 2];
-      tmp[--t] = DIGITS3[r + 1];
-      tmp[--t] = DIGITS3[r];
-      v = q;
-    }
-    const r = v * 3;
-    tmp[--t] = DIGITS3[r + 2];
-    if (v >= 10) tmp[--t] = DIGITS3[r + 1];
-    if (v >= 100) tmp[--t] = DIGITS3[r];
-    while (DIGIT_SCRATCH - t < decimals + 1) tmp[--t] = C_ZERO;
-    const count = DIGIT_SCRATCH - t;
-    const total = count + (decimals > 0 ? 1 : 0) + (negative ? 1 : 0);
+    const scale = POW10[decimals];
+    const whole = (v / scale) | 0;
+    let frac = v - whole * scale;
+    const wholeDigits =
+      whole < 10 ? 1 : whole < 100 ? 2 : whole < 1e3 ? 3 : whole < 1e4 ? 4 : whole < 1e5 ? 5 : whole < 1e6 ? 6 : whole < 1e7 ? 7 : whole < 1e8 ? 8 : whole < 1e9 ? 9 : 10;
+    const total = (negative ? 1 : 0) + wholeDigits + (decimals > 0 ? decimals + 1 : 0);
     this.room(total);
     const b = this.buf;
-    let p = this.pos;
-    if (negative) b[p++] = C_MINUS;
-    const wholeEnd = DIGIT_SCRATCH - decimals;
-    for (let i = t; i < wholeEnd; i++) b[p++] = tmp[i];
-    if (decimals > 0) {
-      b[p++] = C_DOT;
-      for (let i = wholeEnd; i < DIGIT_SCRATCH; i++) b[p++] = tmp[i];
+    let p = this.pos + total;
+    // fraction: exactly `decimals` digits, three per division step, from the right
+    let d = decimals;
+    while (d >= 3) {
+      const q = (frac / 1000) | 0;
+      const r = (frac - q * 1000) * 3;
+      b[--p] = DIGITS3[r + 2];
+      b[--p] = DIGITS3[r + 1];
+      b[--p] = DIGITS3[r];
+      frac = q;
+      d -= 3;
     }
-    this.pos = p;
+    if (d > 0) {
+      const r = frac * 3; // frac < 100 here
+      b[--p] = DIGITS3[r + 2];
+      if (d === 2) b[--p] = DIGITS3[r + 1];
+    }
+    if (decimals > 0) b[--p] = C_DOT;
+    // whole part: wholeDigits digits
+    let w = whole;
+    let left = wholeDigits;
+    while (left >= 3) {
+      const q = (w / 1000) | 0;
+      const r = (w - q * 1000) * 3;
+      b[--p] = DIGITS3[r + 2];
+      b[--p] = DIGITS3[r + 1];
+      b[--p] = DIGITS3[r];
+      w = q;
+      left -= 3;
+    }
+    if (left > 0) {
+      const r = w * 3;
+      b[--p] = DIGITS3[r + 2];
+      if (left === 2) b[--p] = DIGITS3[r + 1];
+    }
+    if (negative) b[--p] = C_MINUS;
+    this.pos += total;
   }
 
   /** UTC ms as `yyyy-mm-ddThh:mm:ss.sssZ` (years 0–9999); the part up to the second is cached. */

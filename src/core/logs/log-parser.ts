@@ -469,13 +469,24 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
       for (let k = block.indexOf(QUOTE); k >= 0; k = block.indexOf(QUOTE, k + 1)) quotes++;
       if (quotes % 2 === 1) return; // a quoted field runs on: wait for more text
     }
-    pending = final ? new Uint8Array(0) : pending.subarray(cut + 1);
+    pending = final ? new Uint8Array(0) : pending.slice(cut + 1); // a copy: never keep the caller's chunk
     if (block.length === 0 && final) return;
     processBlock(block);
+    flushBatch();
+  }
+
+  function flushBatch(): void {
     if (sinks.onBatch && builder && builder.count > 0) {
       sinks.onBatch(builder.build());
       builder = newBuilder();
     }
+  }
+
+  /** Number of quote bytes is odd: a quoted field runs past the end. */
+  function quotedRunOn(bytes: Uint8Array): boolean {
+    let quotes = 0;
+    for (let k = bytes.indexOf(QUOTE); k >= 0; k = bytes.indexOf(QUOTE, k + 1)) quotes++;
+    return quotes % 2 === 1;
   }
 
   return {
@@ -483,8 +494,30 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
       // a plain Uint8Array view (not a Node Buffer subclass) keeps the byte loops monomorphic
       const bytes =
         typeof chunk === "string" ? UTF8_ENCODER.encode(chunk) : new Uint8Array(chunk.buffer, chunk.byteOffset, chunk.byteLength);
-      pending = concatBytes(pending, bytes);
+      let rest = bytes;
+      if (pending.length > 0 && started && !atStreamStart && delimiter !== "whitespace") {
+        // finish the carried-over partial line with the head of this chunk, so the chunk itself is
+        // read in place instead of being copied behind the carry
+        const firstLf = bytes.indexOf(LF);
+        if (firstLf < 0) {
+          pending = concatBytes(pending, bytes);
+          return;
+        }
+        const line = concatBytes(pending, bytes.subarray(0, firstLf));
+        if (quotedRunOn(line)) {
+          pending = concatBytes(pending, bytes);
+          cutCompleteLines(false);
+          if (pending.buffer === bytes.buffer) pending = pending.slice();
+          return;
+        }
+        pending = new Uint8Array(0);
+        processBlock(line);
+        rest = bytes.subarray(firstLf + 1);
+      }
+      pending = pending.length === 0 ? rest : concatBytes(pending, rest);
       cutCompleteLines(false);
+      if (pending.buffer === bytes.buffer) pending = pending.slice(); // never keep the caller's chunk
+      flushBatch();
     },
     end() {
       cutCompleteLines(true);
