@@ -146,7 +146,7 @@ describe("POST /api/v1/surveys/{surveyId}/logs", () => {
 });
 
 describe("refusals through the route: clear error, nothing kept", () => {
-  const cases: [string, string | Uint8Array, Record<string, string>, RegExp][] = [
+  const cases: [string, BlobPart, Record<string, string>, RegExp][] = [
     ["an empty file", "", {}, /is empty/],
     ["a binary file", new Uint8Array([0x50, 0x4b, 0x03, 0x04, 0x00, 0x00, 0x08, 0x00]), {}, /not a text log/],
     ["a wrong delimiter", "time;field\n2026-05-04T09:00:00Z;48000\n", { delimiter: "comma" }, /separated by semicolons/],
