@@ -244,6 +244,9 @@ export async function run(argv: string[]): Promise<void> {
   });
   reportLogProblems("rover", o.rover, roverLog);
   const rover = roverLog.readings;
+  if (!rover.latDeg && o.reference !== "none") {
+    process.stderr.write(`rover ${path.basename(o.rover)}: warning: no latitude/longitude columns, so no reference field or residual (flag no_position)\n`);
+  }
   if (rover.count === 0) throw new CliError(`${path.basename(o.rover)}: no readable rover readings (${roverLog.rejectedCount} rejected rows)`);
 
   let baseLog: LogReadings | null = null;

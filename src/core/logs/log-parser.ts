@@ -228,7 +228,6 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
     nameOf = (i) => names[i] ?? `column ${i + 1}`;
     decimalComma = delimiter !== ",";
     builder = newBuilder();
-    if (iLat < 0) warnings.push("no latitude/longitude columns: the reference field cannot be computed for these readings");
   }
 
   function newBuilder(): ReadingColumnsBuilder {

@@ -152,3 +152,16 @@ describe("daily ranges and verdict", () => {
     expect(() => computeBaseQa([2, 1], [48_000, 48_001])).toThrow(/ascending/);
   });
 });
+
+describe("fourth-difference noise of white noise", () => {
+  it("gives RMS(d4/16) = σ·√70/16 (sum of squared binomial weights 1+16+36+16+1 = 70)", () => {
+    // uniform noise on ±0.5 nT has σ = 1/√12 (closed form); deterministic generator (LCG, common practice)
+    let seed = 11;
+    const rnd = () => ((seed = (seed * 1_103_515_245 + 12_345) % 2_147_483_648) / 2_147_483_648);
+    const { t, v } = record(40_000, () => 48_300 + (rnd() - 0.5));
+    const sigma = 1 / Math.sqrt(12);
+    const noise = fourthDifferenceNoise(t, v, 1, 10);
+    expect(noise.rmsNt / ((sigma * Math.sqrt(70)) / 16)).toBeGreaterThan(0.97);
+    expect(noise.rmsNt / ((sigma * Math.sqrt(70)) / 16)).toBeLessThan(1.03);
+  });
+});
