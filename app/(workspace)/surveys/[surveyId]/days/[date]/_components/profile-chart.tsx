@@ -150,8 +150,8 @@ export function ProfileChart({
                 domain={right ? [Math.floor(right[0] - pad(right)), Math.ceil(right[1] + pad(right))] : ["auto", "auto"]}
                 tickFormatter={(v: number) => formatNt(v, right ? axisDigits(right[1] - right[0]) : 0)}
                 tick={{ fontSize: 11, fill: SERIES.residual }}
-                width={48}
-                label={{ value: "Residual (nT)", angle: 90, position: "insideRight", fontSize: 11, fill: SERIES.residual, dy: -40 }}
+                width={72}
+                label={{ value: "Residual (nT)", angle: 90, position: "insideRight", offset: 0, fontSize: 11, fill: SERIES.residual, dy: -40 }}
               />
             ) : null}
             <Tooltip
