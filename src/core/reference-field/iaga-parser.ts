@@ -28,7 +28,10 @@ function parseNumber(token: string, what: string, lineNumber: number): number {
   if (!NUMBER_PATTERN.test(token)) {
     throw new CoefficientTableError(`${what} "${token}" is not a number`, lineNumber);
   }
-  return Number(token);
+  const value = Number(token);
+  // "1e999" matches the pattern but overflows a double to ±Infinity.
+  if (!Number.isFinite(value)) throw new CoefficientTableError(`${what} "${token}" is not a finite number`, lineNumber);
+  return value;
 }
 
 interface Header {
@@ -151,7 +154,11 @@ export function parseIagaCoefficients(text: string, opts: { name?: string; versi
     rows.push(parseRow(tokens, header, lineNumber));
   }
 
-  if (!header) throw new CoefficientTableError('no header line "g/h n m <epoch> …" found', Math.max(lines.length, 1));
+  if (!header) {
+    // Name the file's last line: split() leaves an empty string after a final line break.
+    const lastLine = lines.length > 1 && lines[lines.length - 1] === "" ? lines.length - 1 : lines.length;
+    throw new CoefficientTableError('no header line "g/h n m <epoch> …" found', Math.max(lastLine, 1));
+  }
   if (typeLine) {
     if (typeLine.tokens.length !== header.columnCount) {
       throw new CoefficientTableError(

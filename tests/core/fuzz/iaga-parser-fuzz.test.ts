@@ -27,7 +27,6 @@ function lineCount(text: string): number {
   return Math.max(1, lines[lines.length - 1] === "" ? lines.length - 1 : lines.length);
 }
 
-const NO_HEADER = 'no header line "g/h n m <epoch> …" found';
 
 function parse(text: string): Outcome<FieldModel> {
   return outcomeOf(() => withinTime(() => parseIagaCoefficients(text)));
@@ -38,9 +37,7 @@ function tableError(text: string, o: Outcome<FieldModel>): CoefficientTableError
   if (o.ok) throw new Error("the damaged table was accepted");
   if (!(o.error instanceof CoefficientTableError)) throw o.error;
   const e = o.error;
-  // Finding F3 (/tmp/fuzz-findings.md): a table without a header names the line after a final
-  // line break; that one case is held to the split count here and kept visible by its own it.fails.
-  const last = e.message.endsWith(NO_HEADER) ? text.split(/\r?\n/).length : lineCount(text);
+  const last = lineCount(text);
   expect(Number.isInteger(e.lineNumber)).toBe(true);
   expect(e.lineNumber, e.message).toBeGreaterThanOrEqual(1);
   expect(e.lineNumber, e.message).toBeLessThanOrEqual(last);
@@ -128,10 +125,9 @@ describe("IAGA parser on a damaged IGRF-14 table", () => {
     );
   });
 
-  // Finding F4 in /tmp/fuzz-findings.md: a numeral beyond the double range ("1e999", 400 nines)
-  // matches the number pattern and is stored as ±Infinity, so the model synthesises ±Infinity/NaN
-  // instead of refusing the table. Expected to fail until the parser checks Number.isFinite.
-  it.fails("a value beyond the double range is refused on its own line", () => {
+  // A numeral beyond the double range ("1e999", 400 nines) matches the number pattern; it must be
+  // refused rather than stored as ±Infinity (found by this property, fixed in the parser).
+  it("a value beyond the double range is refused on its own line", () => {
     runProperty(
       "overflowing value",
       fc.property(rowLineArb, fc.nat(), fc.constantFrom("1e999", "-2.5E+400", "9".repeat(400), "1e309"), (line, col, big) => {
@@ -197,10 +193,9 @@ describe("IAGA parser on a damaged IGRF-14 table", () => {
 });
 
 describe("IAGA parser: line named for a table without a header", () => {
-  // Finding F3 in /tmp/fuzz-findings.md: "no header line" names lines.length of text.split(/\r?\n/),
-  // one past the last line when the file ends with a line break ("\n" → line 2; the published
-  // table without its header line → line 199 of 198). Expected to fail until the parser is fixed.
-  it.fails("names a line within the file", () => {
+  // "no header line" once named the line after a final line break ("\n" → line 2); found by
+  // this property, fixed in the parser.
+  it("names a line within the file", () => {
     runProperty(
       "no header, final line break",
       fc.property(fc.array(fc.constantFrom("# comment", "", "   "), { maxLength: 5 }), fc.constantFrom("\n", "\r\n"), (lines, eol) => {
