@@ -21,6 +21,7 @@ import { z } from "zod";
 import {
   correctReadings,
   createFlagJoiner,
+  createReferenceEvaluator,
   loopBaseFromStation,
   prepareBaseSeries,
   type BasePosition,
@@ -29,8 +30,8 @@ import {
   type ReferenceFieldEvaluator,
 } from "../../core/correction";
 import type { LogReadings } from "../../core/logs";
-import { createTotalFieldEvaluator, timeMsFromDecimalYear, type FieldModel } from "../../core/reference-field";
-import { median } from "../../core/series";
+import type { FieldModel } from "../../core/reference-field";
+import { extent, median } from "../../core/series";
 import { loadReferenceModel, ReferenceModelFileError } from "../../lib/reference-model";
 import { CliError } from "../cli-error";
 import { AtomicFileWriter, CsvByteWriter } from "../csv-output";
@@ -134,42 +135,9 @@ function fieldRange(o: CorrectOptions) {
   return range;
 }
 
-function finiteExtent(a: ArrayLike<number> | null, extra: number[] = []): [number, number] | null {
-  let lo = Infinity, hi = -Infinity;
-  if (a) for (let i = 0; i < a.length; i++) {
-    const v = a[i];
-    if (v < lo) lo = v;
-    if (v > hi) hi = v;
-  }
-  for (const v of extra) if (Number.isFinite(v)) {
-    if (v < lo) lo = v;
-    if (v > hi) hi = v;
-  }
-  return lo <= hi ? [lo, hi] : null;
-}
-
-/** Adapt a loaded model to the correction's evaluator: validity bounds once, fast grid inside the survey box. */
+/** @deprecated kept for existing callers: use createReferenceEvaluator from src/core/correction. */
 export function referenceEvaluatorFor(model: FieldModel, rover: LogReadings, baseTimes: ArrayLike<number>, basePos: BasePosition | null): ReferenceFieldEvaluator {
-  const validFromMs = timeMsFromDecimalYear(model.validFromYear);
-  const validToMs = timeMsFromDecimalYear(model.validToYear);
-  const extra = basePos ? [basePos.latDeg] : [];
-  const lat = finiteExtent(rover.latDeg, extra);
-  const lon = finiteExtent(rover.lonDeg, basePos ? [basePos.lonDeg] : []);
-  const height = finiteExtent(rover.heightM, [0, ...(basePos ? [basePos.heightM] : [])]);
-  const time = finiteExtent(rover.timeMs, baseTimes.length > 0 ? [baseTimes[0], baseTimes[baseTimes.length - 1]] : []);
-  const evaluate =
-    lat && lon && height && time
-      ? createTotalFieldEvaluator(model, {
-          minTimeMs: Math.max(time[0], validFromMs),
-          maxTimeMs: Math.max(Math.min(time[1], validToMs), Math.max(time[0], validFromMs)),
-          minLatDeg: lat[0], maxLatDeg: lat[1], minLonDeg: lon[0], maxLonDeg: lon[1], minHeightM: height[0], maxHeightM: height[1],
-        })
-      : () => NaN;
-  return {
-    label: `${model.name}`,
-    covers: (t) => t >= validFromMs && t <= validToMs,
-    totalNt: evaluate,
-  };
+  return createReferenceEvaluator(model, rover, { baseTimeMs: baseTimes, basePosition: basePos });
 }
 
 function basePositionFrom(o: CorrectOptions, base: LogReadings | null): BasePosition | null {
@@ -193,8 +161,8 @@ function zoneFor(own: string | undefined, shared: string, basis: "utc" | "gps"):
 }
 
 function timeSpan(times: ArrayLike<number>): string {
-  const ext = finiteExtent(times);
-  return ext ? `${new Date(ext[0]).toISOString()} – ${new Date(ext[1]).toISOString()}` : "no times";
+  const { min, max } = extent(times);
+  return Number.isFinite(min) ? `${new Date(min).toISOString()} – ${new Date(max).toISOString()}` : "no times";
 }
 
 /** Write the corrected rows; row i of the output is rover reading i. */
@@ -286,7 +254,7 @@ export async function run(argv: string[]): Promise<void> {
       if (err instanceof ReferenceModelFileError || err instanceof Error) throw new CliError(err.message.split("\n")[0]);
       throw err;
     }
-    reference = referenceEvaluatorFor(model, rover, baseSeries.timeMs, basePos);
+    reference = createReferenceEvaluator(model, rover, { baseTimeMs: baseSeries.timeMs, basePosition: basePos });
   }
 
   let result: CorrectionResult;

@@ -22,3 +22,4 @@ export {
   type CorrectionSummary,
   type RoverReadings,
 } from "./correct-readings";
+export { createReferenceEvaluator, type ReferenceEvaluatorContext } from "./reference-adapter";
