@@ -123,3 +123,45 @@ it("crew uploads a base and a rover log, maps a column, sees progress and both l
   await screenshot(page, "log-page");
   await context.close();
 });
+
+it("crew creates an API token on the profile page (shown once) and a field laptop uploads with it", async () => {
+  const context = await newContext(browser, baseUrl);
+  const page = await context.newPage();
+  await signIn(page, crew.email, crew.password);
+  await page.getByRole("link", { name: "Profile" }).click();
+  await page.waitForURL(/\/profile$/);
+  await page.getByLabel("Token name").fill("Truck laptop");
+  await page.getByRole("button", { name: "Create token" }).click();
+  const token = await page.getByLabel("New API token").inputValue();
+  expect(token).toMatch(/^ftk_/);
+  await screenshot(page, "profile-token");
+  await page.reload();
+  expect(await page.locator("main").innerText()).not.toContain(token);
+  expect(await page.locator("main").innerText()).toContain("Truck laptop");
+
+  // The laptop: no cookie, only the token (as the curl line in the README does).
+  const surveys = await page.goto("/surveys");
+  expect(surveys?.status()).toBe(200);
+  const href = await page.getByRole("link", { name: /BRM-26|Brennock/ }).first().getAttribute("href");
+  const surveyId = href!.split("/").pop()!;
+  const form = new FormData();
+  form.append("kind", "base");
+  form.append("baseSiteName", "Gatehouse paddock");
+  form.append("timeBasis", "local");
+  form.append("file", new Blob([fs.readFileSync(baseFile.replace("2026-05-05", "2026-05-06"))]), path.basename(baseFile).replace("2026-05-05", "2026-05-06"));
+  const res = await fetch(`${baseUrl}/api/v1/surveys/${surveyId}/logs`, { method: "POST", headers: { authorization: `Bearer ${token}` }, body: form });
+  expect(res.status).toBe(201);
+  const body = await res.json();
+  expect(body.log).toMatchObject({ readingCount: 13_801, days: ["2026-05-06"] });
+  const listed = await fetch(`${baseUrl}/api/v1/surveys/${surveyId}/logs?day=2026-05-06`, { headers: { authorization: `Bearer ${token}` } });
+  expect((await listed.json()).items.map((i: { id: number }) => i.id)).toContain(body.log.id);
+
+  // Revoked: the laptop is refused.
+  await page.goto("/profile");
+  await page.getByRole("button", { name: "Revoke" }).first().click();
+  await page.getByRole("button", { name: "Yes, revoke" }).click();
+  await page.getByText("Revoked").first().waitFor();
+  const after = await fetch(`${baseUrl}/api/v1/surveys/${surveyId}/logs`, { headers: { authorization: `Bearer ${token}` } });
+  expect(after.status).toBe(401);
+  await context.close();
+});

@@ -46,7 +46,7 @@ export default async function ProfilePage() {
                     {t.revokedAt ? null : (
                       <form action={revokeApiTokenAction}>
                         <input type="hidden" name="tokenId" value={t.id} />
-                        <ConfirmSubmit label="Revoke" question={`Revoke the token “${t.name}”? Scripts using it stop working.`} confirmLabel="Yes, revoke" />
+                        <ConfirmSubmit label="Revoke" what={t.name} question={`Revoke the token “${t.name}”? Scripts using it stop working.`} confirmLabel="Yes, revoke" />
                       </form>
                     )}
                   </td>
