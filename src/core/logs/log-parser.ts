@@ -1,10 +1,13 @@
 /**
  * Delimited magnetometer logs → columnar readings, with every rejected row reported.
  *
- * Pure and incremental: the caller pushes text chunks (a Node stream, a browser File, a string)
- * and nothing here holds the whole text. Complete lines are split with papaparse (comma, tab,
- * semicolon, pipe, quoted fields); whitespace-delimited logs are split on runs of blanks here,
- * since papaparse does not treat a run of spaces as one delimiter.
+ * Pure and incremental: the caller pushes chunks, UTF-8 bytes (a Node stream, a browser File) or
+ * text, split anywhere; nothing here holds the whole log, only the unfinished last line.
+ * Complete lines are cut into cells in one pass over the bytes when a block holds no quote
+ * character (the usual instrument log: numbers and times are read from the bytes, no string per
+ * cell); a block with quotes goes through papaparse (RFC 4180 quoting, quoted line breaks), and
+ * a test holds both paths to the same result. Whitespace-delimited logs are split on runs of
+ * blanks here, since papaparse does not treat a run of spaces as one delimiter.
  *
  * Per row, in this order, the first failure rejects it (line = 1-based file line):
  * unreadable or impossible time → non-numeric / missing field → field outside the plausible range
