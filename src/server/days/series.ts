@@ -19,7 +19,7 @@ import { NotFoundError, parseInput } from "../errors";
 import { readSettings } from "../processing/service";
 import { getRunResult, latestDoneRun, type RunRecord } from "../runs/service";
 import type { RunColumns, RunDictionaries } from "../runs/run-columns";
-import { loadLogReadings } from "./readings-store";
+import { concatReadings, loadLogReadings } from "./readings-store";
 import { distanceAlongM } from "./line-distance";
 import { parseDay, resolvePairing } from "./service";
 import { thinWithBreaks } from "./thin-series";
@@ -190,20 +190,18 @@ async function roverSeries(surveyId: string, day: string, line: string | null, m
   const db = getDb();
   const pairing = await resolvePairing(db, surveyId, day);
   const parts = await Promise.all(pairing.roverLogs.map((l) => loadLogReadings(db, l.id, day)));
-  const t: number[] = [], f: number[] = [], la: number[] = [], lo: number[] = [], ln: string[] = [];
-  for (const p of parts) for (let i = 0; i < p.count; i++) {
-    t.push(p.timeMs[i]);
-    f.push(p.fieldNt[i]);
-    la.push(p.latDeg ? p.latDeg[i] : NaN);
-    lo.push(p.lonDeg ? p.lonDeg[i] : NaN);
-    ln.push(p.line ? p.line[i] : "");
-  }
-  const lines = linesOf(t, (i) => ln[i], t.length);
-  let idx = t.map((_, i) => i);
+  const all = concatReadings(parts);
+  const t = all.timeMs, f = all.fieldNt;
+  const ln = all.line;
+  const lines = linesOf(t, ln ? (i) => ln[i] : () => "", all.count);
+  let idx: number[];
   if (line !== null) {
     if (!lines.some((l) => l.line === line)) throw new NotFoundError("No such line on this day.");
-    idx = idx.filter((i) => ln[i] === line);
-  }
+    idx = [];
+    for (let i = 0; i < all.count; i++) if ((ln ? ln[i] : "") === line) idx.push(i);
+  } else idx = Array.from({ length: all.count }, (_, i) => i);
+  const la = all.latDeg ?? new Float64Array(all.count).fill(NaN);
+  const lo = all.lonDeg ?? new Float64Array(all.count).fill(NaN);
   const ts = pick(t, idx);
   const dist = line !== null ? distanceAlongM(pick(la, idx), pick(lo, idx)) : new Float64Array(idx.length).fill(NaN);
   const thinned = thinWithBreaks(ts, [pick(f, idx), dist], maxPoints, profileGap(ts));
