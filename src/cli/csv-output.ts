@@ -131,6 +131,8 @@ export class CsvByteWriter {
   private secondCached = NaN;
   private readonly secondPrefix = new Uint8Array(20);
   private readonly textCache = new Map<string, Buffer>();
+  private lastText = "";
+  private lastBytes: Buffer | undefined = Buffer.alloc(0);
 
   /**
    * `sink` receives full buffers in order. A sink that returns a promise may keep the bytes until
@@ -191,11 +193,13 @@ export class CsvByteWriter {
 
   /** A text cell, CSV-quoted when needed; encodings of repeated texts are cached. */
   cell(text: string): void {
-    let bytes = this.textCache.get(text);
+    let bytes = text === this.lastText ? this.lastBytes : this.textCache.get(text);
+    this.lastText = text;
     if (bytes === undefined) {
       bytes = Buffer.from(csvCell(text), "utf8");
       if (this.textCache.size < 100_000) this.textCache.set(text, bytes);
     }
+    this.lastBytes = bytes;
     this.room(bytes.length);
     this.buf.set(bytes, this.pos);
     this.pos += bytes.length;
