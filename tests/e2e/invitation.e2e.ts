@@ -51,7 +51,8 @@ it("crew cannot invite; lead invites; the invitee joins from the mailed link", a
   const adminPage = await adminContext.newPage();
   await signIn(adminPage, byPrefix("admin").email, byPrefix("admin").password);
   await adminPage.goto("/admin/mailbox");
-  await adminPage.getByRole("link", { name: new RegExp(invitee.replace(/[.]/g, "\\.")) }).first().click();
+  await adminPage.getByRole("listitem").filter({ hasText: invitee }).getByRole("link").first().click();
+  await adminPage.waitForURL(/\/admin\/mailbox\/[^/]+$/);
   const link = await adminPage.locator('a[href*="/invitations/"]').first().getAttribute("href");
   expect(link).toBeTruthy();
   await screenshot(adminPage, "mailbox-invitation");
