@@ -1,6 +1,23 @@
 /** Shared option parsing for the correct and qa commands (node:util parseArgs, string options only). */
 import { parseArgs } from "node:util";
+import { z } from "zod";
 import { CliError } from "./cli-error";
+
+/** An optional numeric option: finite, and passing `check` (described by `what` in the error). */
+export function numberOption(flag: string, check: (v: number) => boolean = () => true, what = "a number") {
+  return z
+    .string()
+    .optional()
+    .transform((s, ctx) => {
+      if (s === undefined) return undefined;
+      const v = Number(s);
+      if (s.trim() === "" || !Number.isFinite(v) || !check(v)) {
+        ctx.addIssue({ code: "custom", message: `${flag} must be ${what}, got "${s}"` });
+        return z.NEVER;
+      }
+      return v;
+    });
+}
 
 const NEGATIVE_NUMBER = /^-\d*\.?\d+(e[+-]?\d+)?$/i;
 

@@ -36,7 +36,7 @@ import { loadReferenceModel, ReferenceModelFileError } from "../../lib/reference
 import { CliError } from "../cli-error";
 import { AtomicFileWriter, CsvByteWriter } from "../csv-output";
 import { readLogFile, reportLogProblems } from "../log-file";
-import { parseStringOptions } from "../option-args";
+import { numberOption, parseStringOptions } from "../option-args";
 
 const USAGE =
   "usage: correct (--base base.csv | --loop-station ID) --rover rover.csv --out out.csv [--datum N|median|mean|reference] " +
@@ -52,19 +52,7 @@ const NT_DECIMALS = 3;
 const DEG_DECIMALS = 7;
 const HEIGHT_DECIMALS = 3;
 
-const finite = (flag: string) =>
-  z
-    .string()
-    .optional()
-    .transform((s, ctx) => {
-      if (s === undefined) return undefined;
-      const v = Number(s);
-      if (s.trim() === "" || !Number.isFinite(v)) {
-        ctx.addIssue({ code: "custom", message: `${flag} must be a number, got "${s}"` });
-        return z.NEVER;
-      }
-      return v;
-    });
+const finite = (flag: string) => numberOption(flag);
 
 const basis = (flag: string) => z.enum(["utc", "gps"], { error: `${flag} must be utc or gps` }).default("utc");
 

@@ -9,25 +9,13 @@ import { prepareBaseSeries } from "../../core/correction";
 import { computeBaseQa, type BaseQaResult } from "../../core/qa";
 import { CliError } from "../cli-error";
 import { readLogFile, reportLogProblems } from "../log-file";
-import { parseStringOptions } from "../option-args";
+import { numberOption, parseStringOptions } from "../option-args";
 
 const USAGE =
   "usage: qa --base base.csv [--window-s 60] [--chord-nt 3] [--change-nt 20] [--noise-nt 1] [--gap-min-s 0] " +
   "[--kp N] [--timezone Area/City] [--time-basis utc|gps] [--clock-offset-s X]";
 
-const num = (flag: string, check: (v: number) => boolean = () => true, what = "a number") =>
-  z
-    .string()
-    .optional()
-    .transform((s, ctx) => {
-      if (s === undefined) return undefined;
-      const v = Number(s);
-      if (s.trim() === "" || !Number.isFinite(v) || !check(v)) {
-        ctx.addIssue({ code: "custom", message: `${flag} must be ${what}, got "${s}"` });
-        return z.NEVER;
-      }
-      return v;
-    });
+const num = numberOption;
 
 const positive = (v: number) => v > 0;
 const OptionsSchema = z.object({
