@@ -429,20 +429,21 @@ async function parseIntoTable(
     if (err instanceof RangeError) throw unreadable(options.fileName, err.message);
     throw err;
   }
-  const decoder = new TextDecoder(staged.utf8 ? "utf-8" : "windows-1252");
+  // UTF-8 goes to the parser as bytes (it reads numbers and times from them); anything else is decoded first.
+  const decoder = staged.utf8 ? null : new TextDecoder("windows-1252");
   let nextProgress = PROGRESS_EVERY_ROWS;
   let readSoFar = 0;
   try {
     for await (const chunk of openStaged(staged)) {
       controls.signal?.throwIfAborted();
-      parser.push(decoder.decode(chunk as Buffer, { stream: true }));
+      parser.push(decoder ? decoder.decode(chunk as Buffer, { stream: true }) : (chunk as Buffer));
       readSoFar = stored;
       if (controls.onProgress && readSoFar >= nextProgress) {
         controls.onProgress(readSoFar);
         nextProgress = readSoFar + PROGRESS_EVERY_ROWS;
       }
     }
-    parser.push(decoder.decode());
+    if (decoder) parser.push(decoder.decode());
     controls.signal?.throwIfAborted();
     const summary = parser.end();
     return { summary, days, stored, firstMs, lastMs };

@@ -107,6 +107,15 @@ describe("a good log", () => {
     expect(result.delimiter).toBe("semicolon");
   });
 
+  it("a file that is not UTF-8 is read as Windows-1252 and says so", async () => {
+    const bytes = Buffer.from("# Basis Höhe 312 m\ntime,station,field\n2026-05-04T13:00:00Z,Süd-1,48000.5\n", "latin1");
+    expect(bytes.includes(0xf6)).toBe(true); // ö as one Latin-1 byte: invalid UTF-8
+    const result = await importText(bytes, rover("latin1.csv"));
+    expect(result.warnings.join(" ")).toMatch(/Windows-1252/);
+    const row = await getDb()("log_readings").where({ log_id: result.log.id }).first();
+    expect(row).toMatchObject({ station: "Süd-1", field_nt: 48_000.5, source_line: 3 });
+  });
+
   it("a clock offset is added to every logged time (a clock 2 s slow needs +2 s)", async () => {
     const result = await importText(roverCsv(1, { startIso: "2026-05-04T11:00:00Z" }), rover("offset.csv", { clockOffsetS: "2" }));
     expect(result.log.firstTimeMs).toBe(Date.UTC(2026, 4, 4, 11, 0, 2));
