@@ -14,6 +14,7 @@ import { Refusal } from "@/src/ui/refusal";
 import { StatusChip } from "@/src/ui/status-chip";
 import { formatCount, localTime } from "../_components/day-format";
 import { DatumForm } from "./_components/datum-form";
+import { PairingForm } from "./_components/pairing-form";
 import { DayWorkspace } from "./_components/day-workspace";
 
 type Props = { params: Promise<{ surveyId: string; date: string }> };
@@ -64,6 +65,19 @@ export default async function DayPage({ params }: Props) {
             <RoverRow key={l.id} name={l.originalName} count={l.readingCount} />
           ))}
         </dl>
+        {canEdit ? (
+          <PairingForm
+            surveyId={surveyId}
+            day={date}
+            explicit={pairing.explicit}
+            method={pairing.method}
+            baseLogId={pairing.baseLog?.id ?? null}
+            fallbackBaseLogId={pairing.fallbackBaseLog?.id ?? null}
+            baseLogs={d.baseLogs.map((l) => ({ id: l.id, name: l.originalName }))}
+            roverLogs={d.roverLogs.map((l) => ({ id: l.id, name: l.originalName }))}
+            chosenRoverIds={pairing.explicit ? pairing.roverLogs.map((l) => l.id) : []}
+          />
+        ) : null}
       </section>
       {canEdit ? (
         <section className="rounded-lg border border-ink-100 bg-white p-4 shadow-sm" aria-labelledby="datum-heading">
