@@ -53,3 +53,13 @@ describe("qa", () => {
     expect(r.stderr).toMatch(/--window-s must be a positive number/);
   });
 });
+
+describe("qa with times of day alone", () => {
+  it("reads them on the --date given, in the zone given", () => {
+    const file = path.join(dir, "tod.csv");
+    fs.writeFileSync(file, "Time,nT\n09:00:00,48300\n09:00:01,48301\n09:00:02,48300.5\n09:00:03,48300\n");
+    const r = cli(["qa", "--base", file, "--date", "2026-05-04", "--timezone", "Europe/Berlin"]);
+    expect(r.code).toBe(0);
+    expect(JSON.parse(r.stdout).qa.startUtc).toBe("2026-05-04T07:00:00.000Z"); // CEST = UTC+2
+  });
+});

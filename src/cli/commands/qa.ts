@@ -13,7 +13,7 @@ import { numberOption, parseStringOptions } from "../option-args";
 
 const USAGE =
   "usage: qa --base base.csv [--window-s 60] [--chord-nt 3] [--change-nt 20] [--noise-nt 1] [--gap-min-s 0] " +
-  "[--kp N] [--timezone Area/City] [--time-basis utc|gps] [--clock-offset-s X]";
+  "[--kp N] [--timezone Area/City] [--date yyyy-mm-dd] [--time-basis utc|gps] [--clock-offset-s X]";
 
 const num = numberOption;
 
@@ -27,6 +27,7 @@ const OptionsSchema = z.object({
   "gap-min-s": num("--gap-min-s", (v) => v >= 0, "zero or more seconds"),
   kp: num("--kp", (v) => v >= 0 && v <= 9, "a Kp value 0–9"),
   timezone: z.string().min(1).default("UTC"),
+  date: z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "--date must be yyyy-mm-dd").optional(),
   "time-basis": z.enum(["utc", "gps"], { error: "--time-basis must be utc or gps" }).default("utc"),
   "clock-offset-s": num("--clock-offset-s"),
 });
@@ -53,7 +54,12 @@ function withIsoTimes(qa: BaseQaResult) {
 
 export async function run(argv: string[]): Promise<void> {
   const o = readOptions(argv);
-  const log = await readLogFile(o.base, { timeZone: o.timezone, timeBasis: o["time-basis"], clockOffsetS: o["clock-offset-s"] });
+  const log = await readLogFile(o.base, {
+    timeZone: o.timezone,
+    timeBasis: o["time-basis"],
+    clockOffsetS: o["clock-offset-s"],
+    defaultDate: o.date,
+  });
   reportLogProblems("base", o.base, log);
   const series = prepareBaseSeries(log.readings.timeMs, log.readings.fieldNt);
   if (series.timeMs.length < 2) throw new CliError(`${o.base}: QA needs at least two readable base readings, found ${series.timeMs.length}`);

@@ -230,6 +230,9 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
         return finish(text, defaultDate[0], defaultDate[1], defaultDate[2], +m[1], +m[2], m[3] ? +m[3] : 0, fractionToMs(m[4]), m[5]);
       }
     }
+    if (!defaultDate && TIME_ONLY_RE.test(text)) {
+      throw new TimestampError("missing_date", text, `"${text}" is a time of day without a date: give the log's date (CLI --date)`);
+    }
     throw new TimestampError("unrecognised_format", text, `unreadable timestamp "${text}" (expected e.g. 2026-05-04T09:15:00Z)`);
   }
 

@@ -1,6 +1,7 @@
 /** Why a timestamp could not be read. */
 export type TimestampErrorReason =
   | "unrecognised_format"
+  | "missing_date"
   | "impossible_date"
   | "impossible_time"
   | "leap_second_label"
