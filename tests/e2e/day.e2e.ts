@@ -17,6 +17,8 @@ import { launchBrowser, newContext, screenshot, signIn } from "./support/browser
 const baseUrl = inject("baseUrl");
 const DAY = DEMO_DAYS.find((d) => d.surveyCode === "BRM-26" && d.date === "2026-05-04")!;
 const processor = DEMO_SIGN_INS.find((u) => u.email.startsWith("processor@"))!;
+const crew = DEMO_SIGN_INS.find((u) => u.email.startsWith("crew@"))!;
+const reviewer = DEMO_SIGN_INS.find((u) => u.email.startsWith("reviewer@"))!;
 let browser: Browser;
 let surveyId: string;
 
@@ -144,5 +146,28 @@ describe("day workspace as a processor", () => {
     expect(await page.locator("main").innerText()).toMatch(/no clearance for digging/);
     await screenshot(page, "day-report-375");
     await context.close();
+  }, 120_000);
+
+  it("crew sees the day and its charts but no run button and no downloads; a reviewer of another survey gets not found", async () => {
+    const context = await newContext(browser, baseUrl, 1280);
+    const page = await context.newPage();
+    await signIn(page, crew.email, crew.password);
+    await page.goto(`/surveys/${surveyId}/days/${DAY.date}`);
+    await chartHasLine(page, "drift-chart");
+    await page.getByTestId("run-2").waitFor();
+    expect(await page.getByRole("button", { name: /Run (the correction|again)/ }).count()).toBe(0);
+    expect(await page.getByRole("link", { name: "CSV" }).count()).toBe(0);
+    const direct = await page.request.get(`/api/v1/surveys/${surveyId}/days/${DAY.date}/runs/2/corrected.csv`);
+    expect(direct.status()).toBe(403);
+    await context.close();
+
+    const other = await newContext(browser, baseUrl, 1280);
+    const otherPage = await other.newPage();
+    await signIn(otherPage, reviewer.email, reviewer.password); // reviewer is on SDK-26 only
+    const res = await otherPage.goto(`/surveys/${surveyId}/days/${DAY.date}`);
+    expect(res?.status()).toBe(404);
+    const api = await otherPage.request.get(`/api/v1/surveys/${surveyId}/days/${DAY.date}/series?kind=base`);
+    expect(api.status()).toBe(404);
+    await other.close();
   }, 120_000);
 });
