@@ -105,6 +105,14 @@ function asCliInputs(result: RunResult): { rover: LogReadings; corrected: Correc
   return { rover, corrected };
 }
 
+/** Who downloaded which run, and in which format (audit trail). */
+async function recordExport(actor: Actor, surveyId: string, run: RunRecord, format: "csv" | "geojson"): Promise<void> {
+  await getDb()("audit_events").insert({
+    id: crypto.randomUUID(), survey_id: surveyId, actor_user_id: actor.userId, action: "run.export",
+    details: JSON.stringify({ day: run.day, number: run.number, runId: run.id, format }), created_at: new Date().toISOString(),
+  });
+}
+
 async function surveyOf(surveyId: string): Promise<{ code: string; name: string }> {
   return getDb()("surveys").where({ id: surveyId }).first("code", "name");
 }
@@ -118,6 +126,7 @@ export async function exportRunCsv(actor: Actor, surveyId: string, day: unknown,
   const result = await getRunResult(actor, surveyId, day, number, "export");
   const survey = await surveyOf(surveyId);
   const chunks: Uint8Array[] = [Buffer.from((await exportHeaderLines(survey, result)).join("\n") + "\n", "utf8")];
+  await recordExport(actor, surveyId, result.run, "csv");
   const { rover, corrected } = asCliInputs(result);
   // The CLI's row writer hands its (reused) buffers to a file writer; this one copies each piece
   // into memory instead. It offers every write method the CLI's AtomicFileWriter has.
@@ -145,6 +154,7 @@ export async function exportRunGeoJson(actor: Actor, surveyId: string, day: unkn
   const result = await getRunResult(actor, surveyId, day, number, "export");
   const survey = await surveyOf(surveyId);
   const { run, columns: c, dictionaries: d } = result;
+  await recordExport(actor, surveyId, run, "geojson");
   const nt = createFixedFormatter(NT_DECIMALS);
   const deg = createFixedFormatter(DEG_DECIMALS);
   const hgt = createFixedFormatter(HEIGHT_DECIMALS);

@@ -46,7 +46,9 @@ describe("reviewer", () => {
     expect((await listDays(reviewer, surveyId)).length).toBe(1);
     expect((await runs.getRun(reviewer, surveyId, DAY, 1)).status).toBe("done");
     expect((await getDaySeries(reviewer, surveyId, DAY, { kind: "base" })).kind).toBe("base");
+    const before = await countRows("audit_events");
     expect((await exportRunCsv(reviewer, surveyId, DAY, 1)).chunks.length).toBeGreaterThan(1);
+    expect(await countRows("audit_events")).toBe(before + 1); // the export is on the audit trail
   });
   it("cannot run, change settings or pairing, and nothing is written", async () => {
     const before = await countRows("correction_runs");
@@ -67,7 +69,9 @@ describe("crew", () => {
   });
   it("cannot export or run", async () => {
     await expect(exportRunCsv(crew, surveyId, DAY, 1)).rejects.toBeInstanceOf(ForbiddenError);
+    const audited = await countRows("audit_events");
     await expect(exportRunGeoJson(crew, surveyId, DAY, 1)).rejects.toBeInstanceOf(ForbiddenError);
+    expect(await countRows("audit_events")).toBe(audited); // a refused export leaves no trace as an export
     await expect(runs.startRun(crew, surveyId, DAY)).rejects.toBeInstanceOf(ForbiddenError);
   });
 });
