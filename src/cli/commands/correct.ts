@@ -41,7 +41,7 @@ import { numberOption, parseStringOptions } from "../option-args";
 const USAGE =
   "usage: correct (--base base.csv | --loop-station ID) --rover rover.csv --out out.csv [--datum N|median|mean|reference] " +
   "[--method linear|spline|nearest] [--max-gap-s 120] [--reference igrf|wmm|none] [--timezone Area/City] " +
-  "[--base-timezone Area/City] [--rover-timezone Area/City] [--date yyyy-mm-dd (for times of day alone)] " +
+  "[--base-timezone Area/City] [--rover-timezone Area/City] [--date yyyy-mm-dd (for times of day alone)] [--date-order dmy|mdy] " +
   "[--base-time-basis utc|gps] [--rover-time-basis utc|gps] [--base-clock-offset-s X] [--rover-clock-offset-s X] " +
   "[--instrument-offset-nt X] [--igrf-file PATH] [--base-lat D --base-lon D --base-height-m M] [--min-field-nt N] [--max-field-nt N]";
 
@@ -81,6 +81,7 @@ const OptionsSchema = z
     "base-timezone": z.string().min(1).optional(),
     "rover-timezone": z.string().min(1).optional(),
     date: z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "--date must be yyyy-mm-dd").optional(),
+    "date-order": z.enum(["dmy", "mdy"], { error: "--date-order must be dmy or mdy" }).optional(),
     "base-time-basis": basis("--base-time-basis"),
     "rover-time-basis": basis("--rover-time-basis"),
     "base-clock-offset-s": finite("--base-clock-offset-s"),
@@ -105,7 +106,7 @@ export type CorrectOptions = z.infer<typeof OptionsSchema>;
 
 const STRING_OPTIONS = [
   "base", "loop-station", "rover", "out", "datum", "method", "max-gap-s", "reference", "timezone", "base-timezone",
-  "rover-timezone", "date", "base-time-basis",
+  "rover-timezone", "date", "date-order", "base-time-basis",
   "rover-time-basis", "base-clock-offset-s", "rover-clock-offset-s", "instrument-offset-nt", "igrf-file", "base-lat",
   "base-lon", "base-height-m", "min-field-nt", "max-field-nt",
 ] as const;
@@ -199,6 +200,7 @@ export async function run(argv: string[]): Promise<void> {
   const roverLog = await readLogFile(o.rover, {
     timeZone: zoneFor(o["rover-timezone"], o.timezone, o["rover-time-basis"]), timeBasis: o["rover-time-basis"], clockOffsetS: o["rover-clock-offset-s"], fieldRangeNt: range,
     defaultDate: o.date,
+    dateOrder: o["date-order"],
   });
   reportLogProblems("rover", o.rover, roverLog);
   const rover = roverLog.readings;
@@ -214,6 +216,7 @@ export async function run(argv: string[]): Promise<void> {
     const log = await readLogFile(o.base, {
       timeZone: zoneFor(o["base-timezone"], o.timezone, o["base-time-basis"]), timeBasis: o["base-time-basis"], clockOffsetS: o["base-clock-offset-s"], fieldRangeNt: range,
       defaultDate: o.date,
+      dateOrder: o["date-order"],
     });
     reportLogProblems("base", o.base, log);
     baseLog = log.readings;

@@ -13,7 +13,7 @@ import { numberOption, parseStringOptions } from "../option-args";
 
 const USAGE =
   "usage: qa --base base.csv [--window-s 60] [--chord-nt 3] [--change-nt 20] [--noise-nt 1] [--gap-min-s 0] " +
-  "[--kp N] [--timezone Area/City] [--date yyyy-mm-dd] [--time-basis utc|gps] [--clock-offset-s X]";
+  "[--kp N] [--timezone Area/City] [--date yyyy-mm-dd] [--date-order dmy|mdy] [--time-basis utc|gps] [--clock-offset-s X]";
 
 const num = numberOption;
 
@@ -28,6 +28,7 @@ const OptionsSchema = z.object({
   kp: num("--kp", (v) => v >= 0 && v <= 9, "a Kp value 0–9"),
   timezone: z.string().min(1).default("UTC"),
   date: z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "--date must be yyyy-mm-dd").optional(),
+  "date-order": z.enum(["dmy", "mdy"], { error: "--date-order must be dmy or mdy" }).optional(),
   "time-basis": z.enum(["utc", "gps"], { error: "--time-basis must be utc or gps" }).default("utc"),
   "clock-offset-s": num("--clock-offset-s"),
 });
@@ -59,6 +60,7 @@ export async function run(argv: string[]): Promise<void> {
     timeBasis: o["time-basis"],
     clockOffsetS: o["clock-offset-s"],
     defaultDate: o.date,
+    dateOrder: o["date-order"],
   });
   reportLogProblems("base", o.base, log);
   const series = prepareBaseSeries(log.readings.timeMs, log.readings.fieldNt);

@@ -30,7 +30,14 @@ export interface TimeReadOptions {
   clockOffsetS?: number;
   /** `yyyy-mm-dd` used when the text holds a time of day only. */
   defaultDate?: string;
+  /**
+   * How to read a date written day or month first (`04/05/2026`, `04.05.2026`, `04-05-2026`):
+   * "dmy" or "mdy". Without it such dates are refused as ambiguous; year-first dates never need it.
+   */
+  dateOrder?: DateOrder;
 }
+
+export type DateOrder = "dmy" | "mdy";
 
 export interface TimestampReader {
   /** One timestamp text → UTC ms; throws TimestampError. */
@@ -49,6 +56,9 @@ const EXTENDED_RE =
 const BASIC_RE = /^\s*(\d{4})(\d{2})(\d{2})[Tt](\d{2})(\d{2})(\d{2})?(?:[.,](\d+))?\s*(Z|z|[+-]\d{2}(?:\d{2})?)?\s*$/;
 const TIME_ONLY_RE = /^\s*(\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d+))?)?\s*(Z|z|UTC|GMT|[+-]\d{2}(?::?\d{2})?)?\s*$/;
 const DATE_ONLY_RE = /^\s*(\d{4})[-/](\d{1,2})[-/](\d{1,2})\s*$/;
+/** Day- or month-first date, optionally with a time: groups 1–3 date, 4–7 time, 8 offset. */
+const YEAR_LAST_RE =
+  /^\s*(\d{1,2})([./-])(\d{1,2})\2(\d{4})(?:(?:T|t|\s+)(\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d+))?)?)?\s*(Z|z|UTC|GMT|[+-]\d{2}(?::?\d{2})?)?\s*$/;
 
 /** Fraction digits → ms, rounded half up on the fourth digit. */
 function fractionToMs(frac: string | undefined): number {
@@ -95,6 +105,10 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
     throw new RangeError("GPS time has no time zone: use a GPS time basis with time zone UTC");
   }
   if (!Number.isFinite(clockOffsetS)) throw new RangeError("clock offset must be a finite number of seconds");
+  const dateOrder = options.dateOrder;
+  if (dateOrder !== undefined && dateOrder !== "dmy" && dateOrder !== "mdy") {
+    throw new RangeError(`unknown date order "${String(dateOrder)}" (expected dmy or mdy)`);
+  }
   const clockOffsetMs = Math.round(clockOffsetS * 1000);
   const localToUtc = createLocalToUtc(timeZone);
   let defaultDate: [number, number, number] | null = null;
@@ -230,18 +244,39 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
         return finish(text, defaultDate[0], defaultDate[1], defaultDate[2], +m[1], +m[2], m[3] ? +m[3] : 0, fractionToMs(m[4]), m[5]);
       }
     }
+    m = YEAR_LAST_RE.exec(text);
+    if (m) {
+      const [a, b] = yearLastDayMonth(text, +m[1], +m[3]);
+      return finish(text, +m[4], b, a, m[5] ? +m[5] : 0, m[6] ? +m[6] : 0, m[7] ? +m[7] : 0, fractionToMs(m[8]), m[9]);
+    }
     if (!defaultDate && TIME_ONLY_RE.test(text)) {
       throw new TimestampError("missing_date", text, `"${text}" is a time of day without a date: give the log's date (CLI --date)`);
     }
     throw new TimestampError("unrecognised_format", text, `unreadable timestamp "${text}" (expected e.g. 2026-05-04T09:15:00Z)`);
   }
 
+  /** [day, month] of a day- or month-first date, by the date order option. */
+  function yearLastDayMonth(text: string, first: number, second: number): [number, number] {
+    if (dateOrder === "dmy") return [first, second];
+    if (dateOrder === "mdy") return [second, first];
+    throw new TimestampError(
+      "ambiguous_date_order",
+      text,
+      `"${text.trim()}" puts the year last: say whether it is day/month/year or month/day/year (CLI --date-order dmy|mdy)`,
+    );
+  }
+
   function parseDateAndTime(dateText: string, timeText: string): number {
-    const d = DATE_ONLY_RE.exec(dateText);
     const t = TIME_ONLY_RE.exec(timeText);
     const both = `${dateText.trim()} ${timeText.trim()}`;
-    if (!d || !t) throw new TimestampError("unrecognised_format", both, `unreadable date and time "${both}" (expected e.g. 2026-05-04 and 09:15:00)`);
-    return finish(both, +d[1], +d[2], +d[3], +t[1], +t[2], t[3] ? +t[3] : 0, fractionToMs(t[4]), t[5]);
+    const d = DATE_ONLY_RE.exec(dateText);
+    if (d && t) return finish(both, +d[1], +d[2], +d[3], +t[1], +t[2], t[3] ? +t[3] : 0, fractionToMs(t[4]), t[5]);
+    const e = YEAR_LAST_RE.exec(dateText);
+    if (e && !e[5] && t) {
+      const [day, month] = yearLastDayMonth(both, +e[1], +e[3]);
+      return finish(both, +e[4], month, day, +t[1], +t[2], t[3] ? +t[3] : 0, fractionToMs(t[4]), t[5]);
+    }
+    throw new TimestampError("unrecognised_format", both, `unreadable date and time "${both}" (expected e.g. 2026-05-04 and 09:15:00)`);
   }
 
   return { parse, parseBytes, parseDateAndTime };

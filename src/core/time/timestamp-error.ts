@@ -2,6 +2,7 @@
 export type TimestampErrorReason =
   | "unrecognised_format"
   | "missing_date"
+  | "ambiguous_date_order"
   | "impossible_date"
   | "impossible_time"
   | "leap_second_label"

@@ -164,3 +164,19 @@ describe("minute cache of the fast path", () => {
     }
   });
 });
+
+describe("dates written day or month first", () => {
+  it("reads them only with a stated order", () => {
+    expect(iso(parseTimestamp("04.05.2026 09:15:00", { dateOrder: "dmy" }))).toBe("2026-05-04T09:15:00.000Z");
+    expect(iso(parseTimestamp("05/04/2026 09:15:00.5Z", { dateOrder: "mdy" }))).toBe("2026-05-04T09:15:00.500Z");
+    expect(iso(createTimestampReader({ dateOrder: "dmy" }).parseDateAndTime("4-5-2026", "09:15"))).toBe("2026-05-04T09:15:00.000Z");
+    try {
+      parseTimestamp("04/05/2026 09:15:00");
+      expect.unreachable();
+    } catch (e) {
+      expect((e as TimestampError).reason).toBe("ambiguous_date_order");
+    }
+    expect(() => parseTimestamp("31.02.2026", { dateOrder: "dmy" })).toThrow(/impossible day 31/);
+    expect(() => parseTimestamp("13/25/2026", { dateOrder: "mdy" })).toThrow(/impossible month 13/);
+  });
+});
