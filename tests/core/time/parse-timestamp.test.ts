@@ -112,7 +112,7 @@ describe("time basis and clock offset", () => {
 });
 
 describe("speed and formatting", () => {
-  it("parses 200 000 naive zoned timestamps well under a second and formats them back", () => {
+  it("parses 200 000 naive zoned timestamps no slower than the runtime's own Date.parse of UTC text", () => {
     const reader = createTimestampReader({ timeZone: "Europe/Berlin" });
     const fmt = createIsoUtcFormatter();
     const base = Date.UTC(2026, 4, 4, 6, 0, 0);
@@ -126,7 +126,15 @@ describe("speed and formatting", () => {
     for (let i = 0; i < texts.length; i++) if (reader.parse(texts[i]) === base + i * 250) ok++;
     const elapsedMs = performance.now() - start;
     expect(ok).toBe(texts.length);
-    expect(elapsedMs).toBeLessThan(1000);
+    // relative to a reference operation measured alongside, so machine load cancels out
+    // (a zone look-up per row through Intl would be several times slower than Date.parse)
+    const isoZ = texts.map((t) => t.replace(" ", "T") + "Z");
+    const refStart = performance.now();
+    let sink = 0;
+    for (let i = 0; i < isoZ.length; i++) sink += Date.parse(isoZ[i]);
+    const referenceMs = performance.now() - refStart;
+    expect(sink).toBeGreaterThan(0);
+    expect(elapsedMs).toBeLessThan(2 * referenceMs + 50);
     for (let i = 0; i < 2000; i++) {
       const t = base + i * 123_457;
       expect(fmt(t)).toBe(new Date(t).toISOString());
