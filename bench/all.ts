@@ -32,8 +32,17 @@ for (const name of wanted) {
   for (const args of steps) {
     const isBuild = args[1] === "build";
     if (isBuild && process.env.BENCH_SKIP_BUILD === "1" && fs.existsSync(path.join(ROOT, ".next", "BUILD_ID"))) continue;
-    const r = spawnSync(process.execPath, args, { cwd: ROOT, stdio: "inherit", env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1" } });
+    const r = spawnSync(process.execPath, args, {
+      cwd: ROOT,
+      stdio: ["ignore", "pipe", "inherit"],
+      encoding: "utf8",
+      maxBuffer: 64 << 20,
+      env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1" },
+    });
+    process.stdout.write(r.stdout ?? "");
+    // A bench that prints a verdict of "NOT met" missed its target even when it exits 0.
     status = r.status ?? 1;
+    if (status === 0 && /NOT met/.test(r.stdout ?? "")) status = 1;
     if (status !== 0) break;
   }
   outcome.push(`${name}: ${status === 0 ? "within target" : `missed its target or failed (exit ${status})`}`);
