@@ -1,5 +1,5 @@
 /**
- * `npm run demo`: database → migrations → demo seed → production build → app + local fake
+ * `npm run demo`: database → migrations → demo seed → demo field logs → production build → app + local fake
  * SMTP server on loopback; prints the URL and the demo sign-ins, runs until Ctrl-C.
  */
 import path from "node:path";
@@ -20,6 +20,8 @@ async function main() {
   console.log(`\n[demo] database ${databaseFile}`);
   await runStep("npx", ["tsx", "scripts/db.ts", "migrate"], env);
   await runStep("npx", ["tsx", "scripts/db.ts", "seed"], env);
+  console.log("[demo] demo field logs (generated, then imported as the survey's crew; files already there are skipped)");
+  await runStep(process.execPath, ["--conditions=react-server", "--import", "tsx", "scripts/load-demo-logs.ts"], env);
   if (process.env.DEMO_SKIP_BUILD !== "1") {
     console.log("[demo] building the app (next build)…");
     await runStep(process.execPath, ["node_modules/next/dist/bin/next", "build"], env);

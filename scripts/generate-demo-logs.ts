@@ -4,14 +4,25 @@
  */
 import fs from "node:fs";
 import path from "node:path";
-import { loadReferenceModel } from "../src/lib/reference-model";
+import { loadReferenceModel, ReferenceModelFileError } from "../src/lib/reference-model";
 import { DEMO_DAYS } from "../seeds/demo-logs/scenario";
 import { generateBaseLog, generateRoverLog } from "../seeds/demo-logs/generate";
 import { PROJECT_ROOT } from "./lib/app-process";
 
 const outDir = path.resolve(process.argv[2] ?? path.join(PROJECT_ROOT, "data", "demo-logs"));
 fs.mkdirSync(outDir, { recursive: true });
-const model = loadReferenceModel("igrf");
+// The main field of the invented days: IGRF-14 when its table is at hand, else WMM2025 (shipped
+// in the geomagnetism package), so that the demo also runs where the IGRF file is not installed.
+function demoModel() {
+  try {
+    return loadReferenceModel("igrf");
+  } catch (err) {
+    if (!(err instanceof ReferenceModelFileError)) throw err;
+    console.log("IGRF table not found; the demo logs' main field comes from WMM2025");
+    return loadReferenceModel("wmm");
+  }
+}
+const model = demoModel();
 const manifest = [];
 for (const day of DEMO_DAYS) {
   for (const log of [generateBaseLog(day, model), generateRoverLog(day, model)]) {
