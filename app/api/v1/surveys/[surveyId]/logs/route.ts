@@ -1,4 +1,5 @@
 import { actorFromRequest } from "@/src/server/api-tokens/request-actor";
+import { routeAccess } from "@/src/server/authz/route-access";
 import { json } from "@/src/server/http/respond";
 import { logErrorResponse } from "@/src/server/logs/error-response";
 import { assertCanUploadLogs, importStagedLog } from "@/src/server/logs/import-service";
@@ -14,7 +15,7 @@ type Ctx = { params: Promise<{ surveyId: string }> };
 export async function GET(request: Request, { params }: Ctx): Promise<Response> {
   try {
     const { surveyId } = await params;
-    const actor = await actorFromRequest(request);
+    const actor = await actorFromRequest(request, routeAccess("GET /api/v1/surveys/[surveyId]/logs"));
     const query = Object.fromEntries(new URL(request.url).searchParams);
     return json(await listLogs(actor, surveyId, query));
   } catch (err) {
@@ -26,7 +27,7 @@ export async function GET(request: Request, { params }: Ctx): Promise<Response> 
 export async function POST(request: Request, { params }: Ctx): Promise<Response> {
   try {
     const { surveyId } = await params;
-    const actor = await actorFromRequest(request, { changesState: true });
+    const actor = await actorFromRequest(request, routeAccess("POST /api/v1/surveys/[surveyId]/logs"));
     await assertCanUploadLogs(actor, surveyId); // before reading any byte of the body
     const { fields, staged } = await readLogUpload(request);
     const result = await importStagedLog(actor, surveyId, staged, fields, { signal: request.signal });

@@ -1,4 +1,5 @@
 import { actorFromRequest } from "@/src/server/api-tokens/request-actor";
+import { routeAccess } from "@/src/server/authz/route-access";
 import { getDay, getDayPairing } from "@/src/server/days/service";
 import { json, toErrorResponse } from "@/src/server/http/respond";
 import { listRuns } from "@/src/server/runs/service";
@@ -12,7 +13,7 @@ type Ctx = { params: Promise<{ surveyId: string; date: string }> };
 export async function GET(request: Request, { params }: Ctx): Promise<Response> {
   try {
     const { surveyId, date } = await params;
-    const actor = await actorFromRequest(request);
+    const actor = await actorFromRequest(request, routeAccess("GET /api/v1/surveys/[surveyId]/days/[date]"));
     const day = await getDay(actor, surveyId, date);
     return json({ day, pairing: await getDayPairing(actor, surveyId, date), runs: await listRuns(actor, surveyId, date) });
   } catch (err) {

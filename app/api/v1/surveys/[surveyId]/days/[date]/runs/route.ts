@@ -1,4 +1,5 @@
 import { actorFromRequest } from "@/src/server/api-tokens/request-actor";
+import { routeAccess } from "@/src/server/authz/route-access";
 import { json, toErrorResponse } from "@/src/server/http/respond";
 import { listRuns, startRun } from "@/src/server/runs/service";
 
@@ -11,7 +12,7 @@ type Ctx = { params: Promise<{ surveyId: string; date: string }> };
 export async function GET(request: Request, { params }: Ctx): Promise<Response> {
   try {
     const { surveyId, date } = await params;
-    const actor = await actorFromRequest(request);
+    const actor = await actorFromRequest(request, routeAccess("GET /api/v1/surveys/[surveyId]/days/[date]/runs"));
     return json({ runs: await listRuns(actor, surveyId, date) });
   } catch (err) {
     return toErrorResponse(err);
@@ -22,7 +23,7 @@ export async function GET(request: Request, { params }: Ctx): Promise<Response> 
 export async function POST(request: Request, { params }: Ctx): Promise<Response> {
   try {
     const { surveyId, date } = await params;
-    const actor = await actorFromRequest(request, { changesState: true });
+    const actor = await actorFromRequest(request, routeAccess("POST /api/v1/surveys/[surveyId]/days/[date]/runs"));
     const run = await startRun(actor, surveyId, date);
     return json({ run }, { status: 202, headers: { Location: new URL(`${request.url.replace(/\/$/, "")}/${run.number}`).pathname } });
   } catch (err) {

@@ -1,4 +1,5 @@
 import { actorFromRequest } from "@/src/server/api-tokens/request-actor";
+import { routeAccess } from "@/src/server/authz/route-access";
 import { getDaySeries } from "@/src/server/days/series";
 import { json, toErrorResponse } from "@/src/server/http/respond";
 
@@ -11,7 +12,7 @@ type Ctx = { params: Promise<{ surveyId: string; date: string }> };
 export async function GET(request: Request, { params }: Ctx): Promise<Response> {
   try {
     const { surveyId, date } = await params;
-    const actor = await actorFromRequest(request);
+    const actor = await actorFromRequest(request, routeAccess("GET /api/v1/surveys/[surveyId]/days/[date]/series"));
     const query = Object.fromEntries(new URL(request.url).searchParams);
     return json(await getDaySeries(actor, surveyId, date, query));
   } catch (err) {
