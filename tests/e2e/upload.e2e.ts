@@ -10,6 +10,7 @@ import { afterAll, beforeAll, expect, inject, it } from "vitest";
 import type { Browser } from "playwright-core";
 import { DEMO_SIGN_INS } from "../../seeds/demo-users";
 import { runStep } from "../../scripts/lib/app-process";
+import { writeRoverFile } from "../../bench/import-bench";
 import { launchBrowser, newContext, screenshot, signIn } from "./support/browser";
 
 const baseUrl = inject("baseUrl");
@@ -155,6 +156,18 @@ it("crew creates an API token on the profile page (shown once) and a field lapto
   expect(body.log).toMatchObject({ readingCount: 13_801, days: ["2026-05-06"] });
   const listed = await fetch(`${baseUrl}/api/v1/surveys/${surveyId}/logs?day=2026-05-06`, { headers: { authorization: `Bearer ${token}` } });
   expect((await listed.json()).items.map((i: { id: number }) => i.id)).toContain(body.log.id);
+
+  // A rover log over 10 MB streams through to the import (nothing in front of the route may buffer or cut it).
+  const bigFile = path.join(dir, "big-rover.csv");
+  writeRoverFile(bigFile, 200_000);
+  expect(fs.statSync(bigFile).size).toBeGreaterThan(12 * 1024 * 1024);
+  const bigForm = new FormData();
+  bigForm.append("kind", "rover");
+  bigForm.append("instrument", "ROVER-BIG");
+  bigForm.append("file", new Blob([fs.readFileSync(bigFile)]), "big-rover.csv");
+  const big = await fetch(`${baseUrl}/api/v1/surveys/${surveyId}/logs`, { method: "POST", headers: { authorization: `Bearer ${token}` }, body: bigForm });
+  expect(big.status).toBe(201);
+  expect((await big.json()).log.readingCount).toBe(200_000);
 
   // Revoked: the laptop is refused.
   await page.goto("/profile");
