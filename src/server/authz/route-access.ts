@@ -63,7 +63,7 @@ export const ACTION_ACCESS = {
   "app/(auth)/forgot-password/actions.ts#requestPasswordResetAction": anonymous(true),
   "app/(auth)/reset-password/[token]/actions.ts#resetPasswordAction": anonymous(true),
   "app/(auth)/invitations/[token]/actions.ts#acceptInvitationAction": anonymous(true),
-  "app/(workspace)/actions.ts#signOutAction": signedIn(true),
+  "app/(workspace)/actions.ts#signOutAction": anonymous(true), // ends the caller's own session, if any
   "app/(workspace)/profile/actions.ts#createApiTokenAction": signedIn(true),
   "app/(workspace)/profile/actions.ts#revokeApiTokenAction": signedIn(true),
   "app/(workspace)/surveys/new/actions.ts#createSurveyAction": admin(true),
