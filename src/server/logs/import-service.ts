@@ -16,6 +16,7 @@ import type Database from "better-sqlite3";
 import type { Knex } from "knex";
 import { createLogStreamParser, delimiterName, LogFormatError, type Delimiter, type LogReadings, type LogParseSummary } from "@/src/core/logs";
 import { createZoneOffsetLookup } from "@/src/core/time";
+import { recordAudit } from "../audit/record";
 import type { Actor } from "../auth/actor";
 import { assertSurveyPermission } from "../authz/permissions";
 import { getDb } from "../db/client";
@@ -302,13 +303,11 @@ async function importInTransaction(
     await trx("field_logs").where({ id: logId }).update({ profile_id: saved.id });
   }
 
-  await trx("audit_events").insert({
-    id: randomUUID(),
-    survey_id: surveyId,
-    actor_user_id: actor.userId,
+  await recordAudit(trx, {
+    surveyId,
+    actorUserId: actor.userId,
     action: "log.import",
-    details: JSON.stringify({ logId, kind: options.kind, file: options.fileName, sha256: staged.sha256, readings: parsed.stored, rejected: summary.rejectedCount, issues: summary.issueCount }),
-    created_at: now,
+    details: { logId, kind: options.kind, file: options.fileName, sha256: staged.sha256, readings: parsed.stored, rejected: summary.rejectedCount, issues: summary.issueCount },
   });
 
   return {
