@@ -51,14 +51,38 @@ export interface TimestampReader {
 const MS_PER_MIN = 60_000;
 const MS_PER_DAY = 86_400_000;
 const UTF8 = new TextDecoder("utf-8");
+/**
+ * Longest timestamp text read (after trimming): `2026-05-04T09:15:00.123456789+05:30` has 35
+ * characters, so 64 leaves room for any spelling accepted here. A longer cell is refused before any
+ * pattern runs, which keeps the time per cell bounded whatever a file holds.
+ */
+export const MAX_TIMESTAMP_CHARS = 64;
+// The patterns run on trimmed text, so none starts or ends with `\s*`: two blank runs side by side
+// (`\s*(offset)?\s*$`) backtrack quadratically on a long run of blanks that does not end the text.
 const EXTENDED_RE =
-  /^\s*(\d{4})[-/](\d{1,2})[-/](\d{1,2})(?:(?:T|t|\s+)(\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d+))?)?)?\s*(Z|z|UTC|GMT|[+-]\d{2}(?::?\d{2})?)?\s*$/;
-const BASIC_RE = /^\s*(\d{4})(\d{2})(\d{2})[Tt](\d{2})(\d{2})(\d{2})?(?:[.,](\d+))?\s*(Z|z|[+-]\d{2}(?:\d{2})?)?\s*$/;
-const TIME_ONLY_RE = /^\s*(\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d+))?)?\s*(Z|z|UTC|GMT|[+-]\d{2}(?::?\d{2})?)?\s*$/;
-const DATE_ONLY_RE = /^\s*(\d{4})[-/](\d{1,2})[-/](\d{1,2})\s*$/;
+  /^(\d{4})[-/](\d{1,2})[-/](\d{1,2})(?:(?:T|t|\s+)(\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d+))?)?)?\s*(Z|z|UTC|GMT|[+-]\d{2}(?::?\d{2})?)?$/;
+const BASIC_RE = /^(\d{4})(\d{2})(\d{2})[Tt](\d{2})(\d{2})(\d{2})?(?:[.,](\d+))?\s*(Z|z|[+-]\d{2}(?:\d{2})?)?$/;
+const TIME_ONLY_RE = /^(\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d+))?)?\s*(Z|z|UTC|GMT|[+-]\d{2}(?::?\d{2})?)?$/;
+const DATE_ONLY_RE = /^(\d{4})[-/](\d{1,2})[-/](\d{1,2})$/;
 /** Day- or month-first date, optionally with a time: groups 1–3 date, 4–7 time, 8 offset. */
 const YEAR_LAST_RE =
-  /^\s*(\d{1,2})([./-])(\d{1,2})\2(\d{4})(?:(?:T|t|\s+)(\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d+))?)?)?\s*(Z|z|UTC|GMT|[+-]\d{2}(?::?\d{2})?)?\s*$/;
+  /^(\d{1,2})([./-])(\d{1,2})\2(\d{4})(?:(?:T|t|\s+)(\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d+))?)?)?\s*(Z|z|UTC|GMT|[+-]\d{2}(?::?\d{2})?)?$/;
+/** Characters of an over-long text shown in its error message. */
+const SHOWN_CHARS = 40;
+
+/** Trimmed text, or a TimestampError when it is longer than any timestamp. */
+function trimmedTimestamp(raw: string): string {
+  const text = raw.trim();
+  if (text.length > MAX_TIMESTAMP_CHARS) {
+    const shown = JSON.stringify(text.slice(0, SHOWN_CHARS)).slice(1, -1);
+    throw new TimestampError(
+      "unrecognised_format",
+      text,
+      `unreadable timestamp "${shown}…" (${text.length} characters; a timestamp has at most ${MAX_TIMESTAMP_CHARS})`,
+    );
+  }
+  return text;
+}
 
 /** Fraction digits → ms, rounded half up on the fourth digit. */
 function fractionToMs(frac: string | undefined): number {
@@ -113,7 +137,7 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
   const localToUtc = createLocalToUtc(timeZone);
   let defaultDate: [number, number, number] | null = null;
   if (options.defaultDate !== undefined) {
-    const m = DATE_ONLY_RE.exec(options.defaultDate);
+    const m = DATE_ONLY_RE.exec(options.defaultDate.trim());
     if (!m) throw new RangeError(`default date "${options.defaultDate}" is not yyyy-mm-dd`);
     defaultDate = [+m[1], +m[2], +m[3]];
     assertCivilFields(options.defaultDate, defaultDate[0], defaultDate[1], defaultDate[2], 0, 0, 0);
@@ -227,11 +251,12 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
     return fast === fast ? fast : parse(UTF8.decode(bytes.subarray(at, end)));
   }
 
-  function parse(text: string): number {
-    if (toScratch(text)) {
-      const fast = parseFixedLayout(scratch, 0, text.length);
+  function parse(raw: string): number {
+    if (toScratch(raw)) {
+      const fast = parseFixedLayout(scratch, 0, raw.length);
       if (fast === fast) return fast;
     }
+    const text = trimmedTimestamp(raw);
     let m = EXTENDED_RE.exec(text);
     if (m) {
       return finish(text, +m[1], +m[2], +m[3], m[4] ? +m[4] : 0, m[5] ? +m[5] : 0, m[6] ? +m[6] : 0, fractionToMs(m[7]), m[8]);
@@ -262,13 +287,15 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
     throw new TimestampError(
       "ambiguous_date_order",
       text,
-      `"${text.trim()}" puts the year last: say whether it is day/month/year or month/day/year (CLI --date-order dmy|mdy)`,
+      `"${text}" puts the year last: say whether it is day/month/year or month/day/year (CLI --date-order dmy|mdy)`,
     );
   }
 
-  function parseDateAndTime(dateText: string, timeText: string): number {
+  function parseDateAndTime(rawDate: string, rawTime: string): number {
+    const dateText = trimmedTimestamp(rawDate);
+    const timeText = trimmedTimestamp(rawTime);
     const t = TIME_ONLY_RE.exec(timeText);
-    const both = `${dateText.trim()} ${timeText.trim()}`;
+    const both = `${dateText} ${timeText}`;
     const d = DATE_ONLY_RE.exec(dateText);
     if (d && t) return finish(both, +d[1], +d[2], +d[3], +t[1], +t[2], t[3] ? +t[3] : 0, fractionToMs(t[4]), t[5]);
     const e = YEAR_LAST_RE.exec(dateText);

@@ -65,6 +65,31 @@ describe("impossible timestamps", () => {
   it("accepts 29 February in a leap year", () => {
     expect(iso(parseTimestamp("2024-02-29T00:00:00Z"))).toBe("2024-02-29T00:00:00.000Z");
   });
+
+  // Regression: a long run of blanks inside a cell made the patterns backtrack quadratically
+  // (40 000 blanks took seconds per cell); such text is now trimmed once and refused by length.
+  it.each([
+    ["2026-05-04", {}],
+    ["2026-05-04T09:00:00", {}],
+    ["09:00", { defaultDate: "2026-05-04" }],
+  ] as const)("%s, 40 000 blanks and a letter → unrecognised_format naming the length", (prefix, options) => {
+    const reader = createTimestampReader(options);
+    const text = prefix + " ".repeat(40_000) + "x";
+    expect(() => reader.parse(text)).toThrow(TimestampError);
+    expect(() => reader.parse(text)).toThrow(`(${prefix.length + 40_001} characters; a timestamp has at most 64)`);
+    try {
+      reader.parse(text);
+    } catch (e) {
+      expect((e as TimestampError).reason).toBe("unrecognised_format");
+    }
+    expect(() => reader.parseDateAndTime("2026-05-04", "09:00" + " ".repeat(40_000) + "x")).toThrow(TimestampError);
+  });
+
+  it("still reads a timestamp padded with blanks of any kind, and a 64-character one", () => {
+    expect(parseTimestamp(" \t 2000-01-01T12:00:00Z \r\n")).toBe(946_728_000_000);
+    expect(parseTimestamp("2000-01-01T12:00:00." + "0".repeat(43) + "Z")).toBe(946_728_000_000); // 64 characters
+    expect(() => parseTimestamp("2000-01-01T12:00:00." + "0".repeat(44) + "Z")).toThrow(/65 characters/);
+  });
 });
 
 describe("time zones (naive times)", () => {
