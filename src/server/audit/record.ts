@@ -1,5 +1,5 @@
 import "server-only";
-/** Audit trail: one row per survey change, member change, invitation. */
+/** Audit trail: one row per survey change, member change, invitation, log, setting, run, export and review step. */
 import { randomUUID } from "node:crypto";
 import type { Knex } from "knex";
 import { nowIso } from "../time";
@@ -16,7 +16,15 @@ export type AuditAction =
   | "invitation.revoke"
   | "invitation.accept"
   | "password.reset"
-  | "log.import";
+  | "log.import"
+  | "processing.update"
+  | "run.create"
+  | "run.export"
+  | "qa.thresholds_update"
+  | "kp.update"
+  | "day.submit"
+  | "day.accept"
+  | "day.resurvey";
 
 export async function recordAudit(
   db: Knex | Knex.Transaction,

@@ -20,7 +20,16 @@ export const PERMISSIONS = {
   "processing.update": ["processor", "lead"],
   "settings.update": ["lead"],
   export: ["processor", "reviewer", "lead"],
-  "day.decide": ["reviewer", "lead"],
+  /** Only a QA reviewer decides a day (accept or send back); the org admin may too. */
+  "day.decide": ["reviewer"],
+  /** A processor (or the lead) hands a day to review. */
+  "day.submit": ["processor", "lead"],
+  /** The survey's QA thresholds. */
+  "qa.update": ["processor", "lead"],
+  /** 3-hourly Kp values held for the survey. */
+  "kp.update": ["reviewer", "processor", "lead"],
+  /** The survey's audit trail. */
+  "audit.read": ["lead"],
 } as const satisfies Record<string, readonly SurveyRole[]>;
 
 export type Permission = keyof typeof PERMISSIONS;

@@ -6,6 +6,8 @@ import type { Knex } from "knex";
 import * as m0001 from "@/migrations/0001_foundation";
 import * as m0002 from "@/migrations/0002_field_logs";
 import * as m0003 from "@/migrations/0003_day_workspace";
+import * as m0004 from "@/migrations/0004_qa_review";
+import * as m0005 from "@/migrations/0005_sign_in_throttle";
 
 type Migration = { up(knex: Knex): Promise<void>; down(knex: Knex): Promise<void> };
 
@@ -13,6 +15,8 @@ const MIGRATIONS: ReadonlyArray<readonly [string, Migration]> = [
   ["0001_foundation", m0001],
   ["0002_field_logs", m0002],
   ["0003_day_workspace", m0003],
+  ["0004_qa_review", m0004],
+  ["0005_sign_in_throttle", m0005],
 ];
 
 export const MIGRATION_NAMES: readonly string[] = MIGRATIONS.map(([name]) => name);
