@@ -334,6 +334,7 @@ const ACTION_CALLS: Record<string, ActionCall> = {
     const { apiToken } = await createApiToken(owner, { name: `to revoke ${fresh()}` });
     return fn(fd({ tokenId: apiToken.id }));
   },
+  "app/(workspace)/profile/actions.ts#signOutEverywhereAction": (fn) => fn(),
   "app/(workspace)/surveys/new/actions.ts#createSurveyAction": (fn) =>
     fn(IDLE, fd({ name: "Matrix survey", code: `M-${fresh().toUpperCase()}`, client: "", areaDescription: "", timeZone: "UTC", notes: "" })),
   "app/(workspace)/surveys/[surveyId]/edit/actions.ts#updateSurveyAction": (fn) =>
@@ -358,6 +359,8 @@ const ACTION_CALLS: Record<string, ActionCall> = {
 };
 
 let currentCaller: CallerId = "anonymous";
+/** Entries that end the session they are called with (sign-in rotates it, sign-out ends it). */
+const SESSION_ENDING = /\/auth\/sign-(in|out)$|#(signInAction|acceptInvitationAction|signOutAction|signOutEverywhereAction)$/;
 
 describe("every table entry has a call recipe in this test", () => {
   it("routes", () => expect(Object.keys(ROUTE_ACCESS).filter((k) => !ROUTE_CALLS[k]), "add a ROUTE_CALLS recipe in tests/server/authz-matrix.test.ts").toEqual([]));
@@ -372,7 +375,7 @@ describe.each(Object.entries(ROUTE_ACCESS) as [string, Entry][])("route %s", (ke
     const handler = (await import(file))[key.split(" ")[0]] as (r: Request, c: { params: Promise<Record<string, string>> }) => Promise<Response>;
     const headers = new Headers({ host: "localhost:3000" });
     if (entry.changesState) headers.set("origin", ORIGIN);
-    const session = caller === "anonymous" ? null : key.endsWith("/sign-out") ? (await createSession(users.get(caller)!.userId)).id : await sessionOf(caller);
+    const session = caller === "anonymous" ? null : SESSION_ENDING.test(key) ? (await createSession(users.get(caller)!.userId)).id : await sessionOf(caller);
     if (session) headers.set("cookie", `${SESSION_COOKIE_NAME}=${session}`);
     const res = await handler(await recipe.request(headers), { params: Promise.resolve(recipe.params(fx)) });
     const { outcome, detail } = await routeOutcome(res);
@@ -388,10 +391,11 @@ describe.each(Object.entries(ACTION_ACCESS) as [string, Entry][])("action %s", (
     const fn = (await import(file))[key.split("#")[1]] as Fn;
     currentCaller = caller;
     jar.cookies.clear();
-    // Sign-out ends the session it is called with: give it one of its own.
-    const session = caller === "anonymous" ? null : key.endsWith("#signOutAction") ? (await createSession(users.get(caller)!.userId)).id : await sessionOf(caller);
+    // Sign-in, invitation acceptance and sign-out end the session they are called with: give them one of their own.
+    const session = caller === "anonymous" ? null : SESSION_ENDING.test(key) ? (await createSession(users.get(caller)!.userId)).id : await sessionOf(caller);
     if (session) jar.cookies.set(SESSION_COOKIE_NAME, session);
     const { outcome, detail } = await actionOutcome(() => recipe(fn));
+    if (key.endsWith("#signOutEverywhereAction")) sessions.delete(caller); // all of the caller's sessions ended
     expect({ outcome, detail: outcome === expected(entry, caller) ? "" : detail }).toEqual({ outcome: expected(entry, caller), detail: "" });
   });
 });

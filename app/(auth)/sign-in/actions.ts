@@ -2,6 +2,7 @@
 
 import { redirect } from "next/navigation";
 import { signInWithPassword } from "@/src/server/auth/session";
+import { TooManySignInsError } from "@/src/server/auth/throttle";
 import type { ActionState } from "@/src/ui/action-state";
 import { actionErrorState, formFields } from "@/app/_lib/action-errors";
 import { safeNextPath } from "@/src/lib/safe-next-path";
@@ -11,6 +12,7 @@ export async function signInAction(_prev: ActionState, formData: FormData): Prom
   try {
     await signInWithPassword(input);
   } catch (err) {
+    if (err instanceof TooManySignInsError) return { status: "error", fieldErrors: { email: [err.message] } };
     return actionErrorState(err);
   }
   redirect(safeNextPath(formData.get("next")));

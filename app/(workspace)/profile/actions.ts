@@ -1,8 +1,9 @@
 "use server";
 import { revalidatePath } from "next/cache";
+import { redirect } from "next/navigation";
 import { actionErrorState, formFields } from "@/app/_lib/action-errors";
 import { createApiToken, revokeApiToken } from "@/src/server/api-tokens/service";
-import { requireActor } from "@/src/server/auth/session";
+import { requireActor, signOutEverywhere } from "@/src/server/auth/session";
 import type { ActionState } from "@/src/ui/action-state";
 
 export type CreateTokenState = ActionState | { status: "created"; token: string; name: string };
@@ -23,4 +24,11 @@ export async function revokeApiTokenAction(formData: FormData): Promise<void> {
   const id = formData.get("tokenId");
   await revokeApiToken(actor, typeof id === "string" ? id : "");
   revalidatePath("/profile");
+}
+
+/** Ends all the user's sessions (every browser and device), then back to sign-in. API tokens are revoked separately. */
+export async function signOutEverywhereAction(): Promise<void> {
+  await requireActor("/profile");
+  await signOutEverywhere();
+  redirect("/sign-in?note=signed-out");
 }

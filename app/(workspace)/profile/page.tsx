@@ -6,7 +6,7 @@ import { PageHeader } from "@/src/ui/page-header";
 import { StatusChip } from "@/src/ui/status-chip";
 import { formatDateTime } from "@/src/ui/format";
 import { ConfirmSubmit } from "@/src/ui/confirm-submit";
-import { revokeApiTokenAction } from "./actions";
+import { revokeApiTokenAction, signOutEverywhereAction } from "./actions";
 import { CreateTokenForm } from "./_components/create-token-form";
 
 export const metadata: Metadata = { title: "Profile" };
@@ -55,6 +55,13 @@ export default async function ProfilePage() {
             </tbody>
           </table>
         )}
+      </section>
+      <section className="mt-6 space-y-3 rounded-lg border border-ink-100 bg-white p-5 shadow-sm">
+        <h2 className="text-base font-semibold text-ink-900">Sessions</h2>
+        <p className="max-w-3xl text-sm text-ink-600">Signed in on a shared or lost device? End every session of your account, this one included. API tokens keep working until you revoke them above.</p>
+        <form action={signOutEverywhereAction}>
+          <ConfirmSubmit label="Sign out everywhere" question="End every session of your account, on all browsers and devices?" confirmLabel="Yes, sign out everywhere" />
+        </form>
       </section>
     </>
   );

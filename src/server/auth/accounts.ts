@@ -10,6 +10,7 @@ import { actorFromRow, type Actor, type UserRow } from "./actor";
 import { luciaCookies, withLucia } from "./lucia";
 import { hashPassword, verifyPassword } from "./password";
 import { SignInSchema } from "./schema";
+import { assertSignInAllowed, clearSignInFailures, recordSignInFailure, signInKey } from "./throttle";
 
 export { hashPassword, verifyPassword } from "./password";
 
@@ -28,10 +29,22 @@ export async function authenticate(email: string, password: string): Promise<Act
   return (await verifyPassword(row.password_hash, password)) ? actorFromRow(row) : null;
 }
 
-/** Validates {email, password}; ValidationError with WRONG_CREDENTIALS as form error when they do not match. */
-export async function authenticateInput(input: unknown): Promise<Actor> {
-  const { email, password } = parseInput(SignInSchema, input);
+/**
+ * authenticate behind the failed sign-in throttle (per account and per client address):
+ * TooManySignInsError (429) before any password check while either is at its limit.
+ */
+export async function authenticateThrottled(email: string, password: string, address: string): Promise<Actor | null> {
+  const key = signInKey(email, address);
+  await assertSignInAllowed(key);
   const actor = await authenticate(email, password);
+  await (actor ? clearSignInFailures(key) : recordSignInFailure(key));
+  return actor;
+}
+
+/** Validates {email, password} (throttled); ValidationError with WRONG_CREDENTIALS as form error when they do not match. */
+export async function authenticateInput(input: unknown, address = "unknown"): Promise<Actor> {
+  const { email, password } = parseInput(SignInSchema, input);
+  const actor = await authenticateThrottled(email, password, address);
   if (!actor) throw new ValidationError({}, WRONG_CREDENTIALS);
   return actor;
 }

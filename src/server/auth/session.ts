@@ -8,9 +8,10 @@ import { redirect } from "next/navigation";
 import { cache } from "react";
 import type { Cookie } from "lucia";
 import type { Actor } from "./actor";
-import { authenticateInput, blankSessionCookie, checkSession, createSession, invalidateSession, sessionCookie } from "./accounts";
+import { authenticateInput, blankSessionCookie, checkSession, createSession, invalidateSession, invalidateUserSessions, sessionCookie } from "./accounts";
 import { SESSION_COOKIE_NAME } from "./lucia";
 import { REQUEST_PATH_HEADER } from "./request-path";
+import { clientAddress } from "./throttle";
 import { safeNextPath } from "@/src/lib/safe-next-path";
 
 export type { Actor } from "./actor";
@@ -53,12 +54,15 @@ export async function requireActor(nextPath?: string): Promise<Actor> {
 
 /** Checks {email, password} (ValidationError "E-mail or password is wrong." on mismatch) and sets the cookie. */
 export async function signInWithPassword(input: unknown): Promise<Actor> {
-  const actor = await authenticateInput(input);
+  const actor = await authenticateInput(input, clientAddress(await headers()));
   await startSessionFor(actor.userId);
   return actor;
 }
 
+/** New session id on every sign-in (a session id planted before sign-in is ended, never promoted). */
 export async function startSessionFor(userId: string): Promise<void> {
+  const previous = (await cookies()).get(SESSION_COOKIE_NAME)?.value;
+  if (previous) await invalidateSession(previous);
   const session = await createSession(userId);
   await writeCookie(sessionCookie(session.id));
 }
@@ -67,5 +71,12 @@ export async function signOut(): Promise<void> {
   const store = await cookies();
   const sessionId = store.get(SESSION_COOKIE_NAME)?.value;
   if (sessionId) await invalidateSession(sessionId);
+  await writeCookie(blankSessionCookie());
+}
+
+/** Ends every session of the signed-in user (all browsers and devices), this one included. API tokens stay until revoked. */
+export async function signOutEverywhere(): Promise<void> {
+  const actor = await getActor();
+  if (actor) await invalidateUserSessions(actor.userId);
   await writeCookie(blankSessionCookie());
 }

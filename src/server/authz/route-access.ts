@@ -66,6 +66,7 @@ export const ACTION_ACCESS = {
   "app/(workspace)/actions.ts#signOutAction": anonymous(true), // ends the caller's own session, if any
   "app/(workspace)/profile/actions.ts#createApiTokenAction": signedIn(true),
   "app/(workspace)/profile/actions.ts#revokeApiTokenAction": signedIn(true),
+  "app/(workspace)/profile/actions.ts#signOutEverywhereAction": signedIn(true),
   "app/(workspace)/surveys/new/actions.ts#createSurveyAction": admin(true),
   "app/(workspace)/surveys/[surveyId]/edit/actions.ts#updateSurveyAction": survey("survey.update", true),
   "app/(workspace)/surveys/[surveyId]/edit/actions.ts#setArchivedAction": survey("survey.archive", true),
