@@ -369,7 +369,13 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
       return;
     }
     if (delimiter !== "whitespace" && block.indexOf(QUOTE) >= 0) {
-      processQuotedBlock(UTF8_DECODER.decode(block));
+      // papaparse accepts blanks or a CR between a closing quote and a line feed, but at the very
+      // end of its input it keeps the quote (`"10000"\r` → `10000"\r`): a CRLF file's row ending in
+      // a quoted cell, cut here at its LF, would lose its number. Trailing padding is dropped first
+      // (pushCell trims it from the last cell anyway).
+      let end = n;
+      while (end > 0 && isPadding(block[end - 1])) end--;
+      processQuotedBlock(UTF8_DECODER.decode(block.subarray(0, end)));
       return;
     }
     if (delimiter === "whitespace") {
@@ -491,37 +497,70 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
     return quotes % 2 === 1;
   }
 
+  // A text chunk that ends in the first half of a surrogate pair: that code unit waits for the next
+  // chunk, so a character split between two strings is encoded whole, not as two U+FFFD.
+  let heldHighSurrogate = "";
+
+  /** UTF-8 of a text chunk, with a held-back high surrogate in front and a trailing one held back. */
+  function encodeText(chunk: string): Uint8Array {
+    let text = heldHighSurrogate.length > 0 ? heldHighSurrogate + chunk : chunk;
+    heldHighSurrogate = "";
+    const last = text.length > 0 ? text.charCodeAt(text.length - 1) : 0;
+    if (last >= 0xd800 && last <= 0xdbff) {
+      heldHighSurrogate = text.slice(-1);
+      text = text.slice(0, -1);
+    }
+    return UTF8_ENCODER.encode(text);
+  }
+
+  /** A high surrogate still held when bytes or the end come: alone it is U+FFFD, as in the whole text. */
+  function releaseHeldSurrogate(): void {
+    if (heldHighSurrogate.length === 0) return;
+    const lone = UTF8_ENCODER.encode(heldHighSurrogate);
+    heldHighSurrogate = "";
+    pushBytes(lone);
+  }
+
+  function pushBytes(chunk: Uint8Array): void {
+    // a plain Uint8Array view (not a Node Buffer subclass) keeps the byte loops monomorphic
+    const bytes = new Uint8Array(chunk.buffer, chunk.byteOffset, chunk.byteLength);
+    let rest = bytes;
+    if (pending.length > 0 && started && !atStreamStart && delimiter !== "whitespace") {
+      // finish the carried-over partial line with the head of this chunk, so the chunk itself is
+      // read in place instead of being copied behind the carry
+      const firstLf = bytes.indexOf(LF);
+      if (firstLf < 0) {
+        pending = concatBytes(pending, bytes);
+        return;
+      }
+      const line = concatBytes(pending, bytes.subarray(0, firstLf));
+      if (quotedRunOn(line)) {
+        pending = concatBytes(pending, bytes);
+        cutCompleteLines(false);
+        if (pending.buffer === bytes.buffer) pending = pending.slice();
+        return;
+      }
+      pending = new Uint8Array(0);
+      processBlock(line);
+      rest = bytes.subarray(firstLf + 1);
+    }
+    pending = pending.length === 0 ? rest : concatBytes(pending, rest);
+    cutCompleteLines(false);
+    if (pending.buffer === bytes.buffer) pending = pending.slice(); // never keep the caller's chunk
+    flushBatch();
+  }
+
   return {
     push(chunk: string | Uint8Array): void {
-      // a plain Uint8Array view (not a Node Buffer subclass) keeps the byte loops monomorphic
-      const bytes =
-        typeof chunk === "string" ? UTF8_ENCODER.encode(chunk) : new Uint8Array(chunk.buffer, chunk.byteOffset, chunk.byteLength);
-      let rest = bytes;
-      if (pending.length > 0 && started && !atStreamStart && delimiter !== "whitespace") {
-        // finish the carried-over partial line with the head of this chunk, so the chunk itself is
-        // read in place instead of being copied behind the carry
-        const firstLf = bytes.indexOf(LF);
-        if (firstLf < 0) {
-          pending = concatBytes(pending, bytes);
-          return;
-        }
-        const line = concatBytes(pending, bytes.subarray(0, firstLf));
-        if (quotedRunOn(line)) {
-          pending = concatBytes(pending, bytes);
-          cutCompleteLines(false);
-          if (pending.buffer === bytes.buffer) pending = pending.slice();
-          return;
-        }
-        pending = new Uint8Array(0);
-        processBlock(line);
-        rest = bytes.subarray(firstLf + 1);
+      if (typeof chunk === "string") {
+        pushBytes(encodeText(chunk));
+        return;
       }
-      pending = pending.length === 0 ? rest : concatBytes(pending, rest);
-      cutCompleteLines(false);
-      if (pending.buffer === bytes.buffer) pending = pending.slice(); // never keep the caller's chunk
-      flushBatch();
+      releaseHeldSurrogate();
+      pushBytes(chunk);
     },
     end() {
+      releaseHeldSurrogate();
       cutCompleteLines(true);
       if (header === null) throw new LogFormatError("the log is empty: expected a header row and readings");
       if (rowCount === 0) warnings.push("the log has a header but no readings");

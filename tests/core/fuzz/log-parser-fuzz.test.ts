@@ -224,11 +224,11 @@ describe("per-log clock offset", () => {
 });
 
 describe("CRLF logs with quoted cells", () => {
-  // Finding F2 in /tmp/fuzz-findings.md: when a row that ends in a quoted cell and CRLF is the
-  // last complete line of a pushed chunk (always true for the file's last row), its last cell
-  // keeps the closing quote: a numeric column is rejected as non_numeric_field, a text column is
-  // stored as `S999"`; chunked, one row per chunk. Expected to fail until the parser is fixed.
-  it.fails("parse to exactly the generated readings, whole and in any chunks", () => {
+  // Once found here: when a row ending in a quoted cell and CRLF was the last complete line of a
+  // block handed to papaparse (always true for the file's last row), its last cell kept the
+  // closing quote (a number rejected as non_numeric_field, a station stored as `S999"`), one row
+  // per pushed chunk. Windows spreadsheet exports look exactly like this.
+  it("parse to exactly the generated readings, whole and in any chunks", () => {
     runProperty(
       "crlf quoted",
       fc.property(validLogArb({ crlfQuoted: true }), splitArb, (log, cuts) => {
@@ -236,19 +236,18 @@ describe("CRLF logs with quoted cells", () => {
         if (!whole.ok) throw whole.error;
         expectExactly(log, whole.value);
         expect(comparable(parseChunks(splitText(log.text, cuts)))).toEqual(comparable(whole));
+        expect(comparable(parseChunks(splitBytes(new TextEncoder().encode(log.text), cuts)))).toEqual(comparable(whole));
       }),
-      { numRuns: 50, timeLimitMs: 1000, minRuns: 1 },
-      { endOnFailure: true },
+      { numRuns: 200, timeLimitMs: 2000 },
     );
   });
 });
 
 describe("text chunks cut inside a surrogate pair", () => {
-  // Finding F5 in /tmp/fuzz-findings.md: push(string) encodes each chunk to UTF-8 on its own, so
-  // a chunk that ends between the two halves of a surrogate pair (e.g. "𐀀" cut after one code
-  // unit) turns both halves into U+FFFD; the documented "any split, even mid-character" does not
-  // hold for text chunks. Expected to fail until the parser carries a trailing high surrogate over.
-  it.fails("give the same result as the whole text", () => {
+  // Once found here: push(string) encoded each chunk to UTF-8 on its own, so a chunk ending
+  // between the two halves of a surrogate pair (e.g. "𐀀" cut after one code unit) turned both
+  // halves into U+FFFD. The parser now holds a trailing high surrogate back for the next chunk.
+  it("give the same result as the whole text", () => {
     runProperty(
       "surrogate split",
       fc.property(fc.constantFrom("time,field,station\n2026-05-04T09:00:00Z,48000,\u{1F6F0}A\n", "\u{10000}time,field\n"), (text) => {
@@ -256,7 +255,36 @@ describe("text chunks cut inside a surrogate pair", () => {
         expect(comparable(parseChunks([text.slice(0, cut), text.slice(cut)]))).toEqual(comparable(parseWhole(text)));
       }),
       { numRuns: 10, timeLimitMs: 1000, minRuns: 1 },
-      { endOnFailure: true },
+    );
+  });
+
+  it("random logs with characters beyond the BMP (and lone halves) put in anywhere, cut at any code unit, give the same result as the whole text", () => {
+    const fraction = fc.double({ min: 0, max: 1, maxExcluded: true, noNaN: true });
+    const wideArb = fc.constantFrom("\u{1F6F0}", "\u{10000}", "\u{10FFFF}", "\uD800", "\uDC00", "\uD83D\uDE00\uD83D");
+    runProperty(
+      "surrogate splits anywhere",
+      fc.property(validLogArb(), fc.array(fc.tuple(fraction, wideArb), { minLength: 1, maxLength: 6 }), splitArb, (log, inserts, cuts) => {
+        let text = log.text;
+        for (const [at, piece] of inserts) {
+          const i = Math.floor(at * (text.length + 1));
+          text = text.slice(0, i) + piece + text.slice(i);
+        }
+        // random cuts, and a cut right after every high surrogate (inside each pair)
+        const chunks: string[] = [];
+        for (const piece of splitText(text, cuts, { anyCodeUnit: true })) {
+          let at = 0;
+          for (let k = 0; k < piece.length; k++) {
+            const c = piece.charCodeAt(k);
+            if (c >= 0xd800 && c <= 0xdbff) {
+              chunks.push(piece.slice(at, k + 1));
+              at = k + 1;
+            }
+          }
+          chunks.push(piece.slice(at));
+        }
+        expect(comparable(parseChunks(chunks))).toEqual(comparable(parseWhole(text)));
+      }),
+      BUDGET,
     );
   });
 });
@@ -299,7 +327,7 @@ describe("damaged valid logs", () => {
       fc.property(validLogArb(), damagesArb, splitArb, (log, damages, cuts) => {
         const text = applyDamages(log.text, damages);
         const whole = comparable(parseWhole(text));
-        expect(comparable(parseChunks(splitText(text, cuts)))).toEqual(whole);
+        expect(comparable(parseChunks(splitText(text, cuts, { anyCodeUnit: true })))).toEqual(whole);
         expect(comparable(parseChunks(splitBytes(new TextEncoder().encode(text), cuts)))).toEqual(whole);
       }),
       { numRuns: 400, timeLimitMs: 3000 },

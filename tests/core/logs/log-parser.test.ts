@@ -207,3 +207,62 @@ describe("byte chunks", () => {
     }
   });
 });
+
+describe("regressions", () => {
+  function parseIn(text: string, size: number, as: "text" | "bytes") {
+    const p = createLogStreamParser();
+    const src = as === "text" ? text : new TextEncoder().encode(text);
+    for (let i = 0; i < src.length; i += size) p.push(src.slice(i, i + size));
+    const r = p.end();
+    return { ...r, readings: r.readings! };
+  }
+
+  // A CRLF row ending in a quoted cell (a Windows spreadsheet export) kept the closing quote of its
+  // last cell when it was the last line of a block: the number was rejected, a text kept `"`.
+  it("CRLF row ending in a quoted number: one reading of 10000 nT, no rejects", () => {
+    const text = 'time,field\r\n"2000-01-01T00:00:00.000Z","10000"\r\n';
+    for (const r of [parseLogText(text), parseIn(text, 5, "text"), parseIn(text, 5, "bytes"), parseIn(text, text.length, "bytes")]) {
+      expect(r.rejected).toEqual([]);
+      expect(r.readings.count).toBe(1);
+      expect(r.readings.fieldNt[0]).toBe(10_000);
+      expect(r.readings.timeMs[0]).toBe(Date.UTC(2000, 0, 1));
+    }
+  });
+
+  it("CRLF rows ending in a quoted text cell keep the text without its quote, whatever the chunks", () => {
+    const rows = Array.from({ length: 1000 }, (_, i) => `"${new Date(Date.UTC(2026, 4, 4, 9) + i * 1000).toISOString()}","${48_000 + i}","S${i}"`);
+    const text = "time,field,station\r\n" + rows.join("\r\n") + "\r\n";
+    const want = Array.from({ length: 1000 }, (_, i) => `S${i}`);
+    for (const r of [parseLogText(text), parseIn(text, 4096, "text"), parseIn(text, 4096, "bytes"), parseIn(text, 65_536, "bytes")]) {
+      expect(r.rejectedCount).toBe(0);
+      expect(r.readings.station).toEqual(want);
+    }
+  });
+
+  it("a quoted last cell followed by blanks at the end of the file is read without its quote", () => {
+    const r = parseLogText('time,field,station\n2026-05-04T09:00:00Z,48000,"S1"  ');
+    expect(r.readings.station).toEqual(["S1"]);
+  });
+
+  // A text chunk cut between the two halves of a surrogate pair turned the character into two U+FFFD.
+  it("text chunks cut inside a surrogate pair give the character itself", () => {
+    const p = createLogStreamParser();
+    p.push("time,field,station\n2026-05-04T09:00:00Z,48000,\uD83D");
+    p.push("\uDEF0A\n");
+    expect(p.end().readings!.station).toEqual(["\u{1F6F0}A"]);
+    const q = createLogStreamParser();
+    q.push("\uD800");
+    q.push("\uDC00time,field\n");
+    expect(q.end().header).toEqual(["\u{10000}time", "field"]);
+  });
+
+  it("a lone high surrogate at the end of a text chunk followed by bytes or the end is U+FFFD, as in the whole text", () => {
+    const p = createLogStreamParser();
+    p.push("time,field,station\n2026-05-04T09:00:00Z,48000,A\uD800");
+    p.push(new TextEncoder().encode("B\n2026-05-04T09:00:01Z,48001,C"));
+    p.push("\uD800");
+    const r = p.end();
+    expect(r.readings!.station).toEqual(["A\uFFFDB", "C\uFFFD"]);
+    expect(r.readings!.station).toEqual(parseLogText("time,field,station\n2026-05-04T09:00:00Z,48000,A\uD800B\n2026-05-04T09:00:01Z,48001,C\uD800").readings.station);
+  });
+});
