@@ -356,6 +356,22 @@ const ACTION_CALLS: Record<string, ActionCall> = {
   "app/(workspace)/surveys/[surveyId]/days/[date]/actions.ts#updateDatumAction": (fn) => fn(fx.surveyId, fx.day, IDLE, fd({ datumKind: "value", datumValueNt: "49300" })),
   "app/(workspace)/surveys/[surveyId]/days/[date]/actions.ts#savePairingAction": (fn) =>
     fn(fx.surveyId, fx.day, IDLE, fd({ method: "base", baseLogId: String(fx.baseLogId), fallbackBaseLogId: "", roverLogIds: [String(fx.roverLogId)] })),
+  // Review (issue 6): each call starts from the state its action needs, so only the caller decides the outcome.
+  "app/(workspace)/surveys/[surveyId]/days/[date]/review-actions.ts#submitDayAction": async (fn) => {
+    await getDb()("day_reviews").where({ survey_id: fx.surveyId, day: fx.day }).delete();
+    return fn(fx.surveyId, fx.day, IDLE, fd({ comment: "matrix" }));
+  },
+  "app/(workspace)/surveys/[surveyId]/days/[date]/review-actions.ts#decideDayAction": async (fn) => {
+    const now = new Date().toISOString();
+    await getDb()("day_reviews").insert({ survey_id: fx.surveyId, day: fx.day, state: "awaiting_review", submitted_by: fx.processor.userId, submitted_at: now, updated_at: now }).onConflict(["survey_id", "day"]).merge();
+    return fn(fx.surveyId, fx.day, IDLE, fd({ decision: "accept" }));
+  },
+  "app/(workspace)/surveys/[surveyId]/qa/actions.ts#updateQaThresholdsAction": async (fn) => {
+    const { DEFAULT_QA_THRESHOLDS } = await import("@/src/server/qa-assessment/thresholds");
+    return fn(fx.surveyId, IDLE, fd({ ...Object.fromEntries(Object.entries(DEFAULT_QA_THRESHOLDS).map(([k, v]) => [k, String(v)])), spikeCount: String(10 + Number(fresh().replace(/\D/g, "").slice(0, 3) || 1)) }));
+  },
+  "app/(workspace)/surveys/[surveyId]/qa/actions.ts#saveKpAction": (fn) => fn(fx.surveyId, IDLE, fd({ text: "2026-05-04T09:00Z,3+" })),
+  "app/(workspace)/profile/notification-actions.ts#saveNotificationPreferencesAction": (fn) => fn(IDLE, fd({ enabled: ["review.awaiting", "review.accepted"] })),
 };
 
 let currentCaller: CallerId = "anonymous";

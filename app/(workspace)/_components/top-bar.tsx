@@ -1,10 +1,12 @@
 import Link from "next/link";
 import type { Actor } from "@/src/server/auth/session";
+import { decidesAnywhere } from "@/src/server/review/service";
 import { WordMark } from "@/src/ui/word-mark";
 import { signOutAction } from "../actions";
 import { NavLink } from "./nav-link";
 
-export function TopBar({ actor }: { actor: Actor }) {
+export async function TopBar({ actor }: { actor: Actor }) {
+  const reviews = await decidesAnywhere(actor);
   return (
     <header className="no-print bg-ink-900 text-paper-50">
       <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-6 gap-y-2 px-4 py-2.5 sm:px-6">
@@ -13,6 +15,7 @@ export function TopBar({ actor }: { actor: Actor }) {
         </Link>
         <nav aria-label="Main" className="order-3 flex w-full gap-1 sm:order-none sm:w-auto">
           <NavLink href="/surveys">Surveys</NavLink>
+          {reviews ? <NavLink href="/review">Review</NavLink> : null}
           {actor.isAdmin ? <NavLink href="/admin/mailbox">Mailbox</NavLink> : null}
           <NavLink href="/profile">Profile</NavLink>
         </nav>

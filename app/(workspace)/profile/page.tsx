@@ -8,12 +8,15 @@ import { formatDateTime } from "@/src/ui/format";
 import { ConfirmSubmit } from "@/src/ui/confirm-submit";
 import { revokeApiTokenAction, signOutEverywhereAction } from "./actions";
 import { CreateTokenForm } from "./_components/create-token-form";
+import { NotificationForm } from "./_components/notification-form";
+import { getNotificationPreferences } from "@/src/server/notifications/preferences";
 
 export const metadata: Metadata = { title: "Profile" };
 
 export default async function ProfilePage() {
   const actor = await requireActor("/profile");
   const tokens = await listApiTokens(actor);
+  const mailChoices = await getNotificationPreferences(actor);
   const curl = `curl -H "Authorization: Bearer $FIELDTIDE_TOKEN" -F kind=rover -F instrument=ROVER-01 -F timeBasis=utc -F file=@rover.csv ${getEnv().appUrl}/api/v1/surveys/SURVEY_ID/logs`;
   return (
     <>
@@ -55,6 +58,13 @@ export default async function ProfilePage() {
             </tbody>
           </table>
         )}
+      </section>
+      <section className="mt-6 space-y-3 rounded-lg border border-ink-100 bg-white p-5 shadow-sm" aria-labelledby="mail-heading">
+        <div>
+          <h2 id="mail-heading" className="text-base font-semibold text-ink-900">Review mail</h2>
+          <p className="mt-1 max-w-3xl text-sm text-ink-600">Fieldtide mails you about the review of survey days. Untick what you do not want.</p>
+        </div>
+        <NotificationForm preferences={mailChoices} />
       </section>
       <section className="mt-6 space-y-3 rounded-lg border border-ink-100 bg-white p-5 shadow-sm">
         <h2 className="text-base font-semibold text-ink-900">Sessions</h2>

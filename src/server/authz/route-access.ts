@@ -76,6 +76,11 @@ export const ACTION_ACCESS = {
   "app/(workspace)/surveys/[surveyId]/settings/actions.ts#updateProcessingSettingsAction": survey("processing.update", true),
   "app/(workspace)/surveys/[surveyId]/days/[date]/actions.ts#updateDatumAction": survey("processing.update", true),
   "app/(workspace)/surveys/[surveyId]/days/[date]/actions.ts#savePairingAction": survey("processing.update", true),
+  "app/(workspace)/surveys/[surveyId]/days/[date]/review-actions.ts#submitDayAction": survey("day.submit", true),
+  "app/(workspace)/surveys/[surveyId]/days/[date]/review-actions.ts#decideDayAction": survey("day.decide", true),
+  "app/(workspace)/surveys/[surveyId]/qa/actions.ts#updateQaThresholdsAction": survey("qa.update", true),
+  "app/(workspace)/surveys/[surveyId]/qa/actions.ts#saveKpAction": survey("kp.update", true),
+  "app/(workspace)/profile/notification-actions.ts#saveNotificationPreferencesAction": signedIn(true),
 } as const satisfies Record<string, RouteAccessEntry>;
 
 export type RouteKey = keyof typeof ROUTE_ACCESS;

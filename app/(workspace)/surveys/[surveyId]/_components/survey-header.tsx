@@ -14,10 +14,13 @@ export function SurveyHeader({ survey }: { survey: Survey }) {
   const tabs: SurveyTab[] = [
     { href: base, label: "Overview", exact: true },
     ...(can("days.read") ? [{ href: `${base}/days`, label: "Days" }] : []),
+    ...(can("days.read") ? [{ href: `${base}/calendar`, label: "Calendar" }] : []),
+    ...(can("days.read") ? [{ href: `${base}/qa`, label: "QA" }] : []),
     ...(can("logs.read") ? [{ href: `${base}/logs`, label: "Logs" }] : []),
     ...(can("members.read") ? [{ href: `${base}/members`, label: "Members" }] : []),
     { href: `${base}/settings`, label: "Settings" },
     ...(can("survey.update") ? [{ href: `${base}/edit`, label: "Edit" }] : []),
+    ...(can("audit.read") ? [{ href: `${base}/audit`, label: "Audit" }] : []),
   ];
   return (
     <header className="mb-6 border-b border-ink-100">

@@ -3,7 +3,10 @@ import Link from "next/link";
 import { guardedRead } from "@/app/_lib/guarded-read";
 import { requireActor } from "@/src/server/auth/session";
 import { roleAllows } from "@/src/server/authz/permission-table";
-import { getDaySeries, type BaseSeriesResponse } from "@/src/server/days/series";
+import { getDaySeries, type BaseSeriesResponse, type RoverSeriesResponse } from "@/src/server/days/series";
+import { listKp } from "@/src/server/kp/service";
+import { getQaThresholds } from "@/src/server/qa-assessment/thresholds-service";
+import { getDayReview, listDayReviewHistory } from "@/src/server/review/service";
 import { getDay, getDayPairing } from "@/src/server/days/service";
 import { getProcessingSettings } from "@/src/server/processing/service";
 import { listRuns } from "@/src/server/runs/service";
@@ -11,11 +14,14 @@ import { getSurvey } from "@/src/server/surveys/service";
 import { LinkButton } from "@/src/ui/button";
 import { CautionNotice } from "@/src/ui/caution-notice";
 import { Refusal } from "@/src/ui/refusal";
+import { ReviewStateChip, VerdictChip } from "@/src/ui/review-chips";
 import { StatusChip } from "@/src/ui/status-chip";
 import { formatCount, localTime } from "../_components/day-format";
 import { DatumForm } from "./_components/datum-form";
 import { PairingForm } from "./_components/pairing-form";
 import { DayWorkspace } from "./_components/day-workspace";
+import { KpStrip } from "./_components/kp-strip";
+import { ReviewPanel } from "./_components/review-panel";
 
 type Props = { params: Promise<{ surveyId: string; date: string }> };
 
@@ -23,8 +29,6 @@ export async function generateMetadata({ params }: Props): Promise<Metadata> {
   const { date } = await params;
   return { title: `Day ${date}` };
 }
-
-const VERDICT_TONE = { quiet: "ok", disturbed: "warn", storm: "stop" } as const;
 
 export default async function DayPage({ params }: Props) {
   const { surveyId, date } = await params;
@@ -39,6 +43,14 @@ export default async function DayPage({ params }: Props) {
     getProcessingSettings(actor, surveyId),
     getDaySeries(actor, surveyId, date, { kind: "base" }) as Promise<BaseSeriesResponse>,
   ]);
+  // Review: the assessment is refreshed here when the day's base log, thresholds or Kp changed.
+  const [review, history, kp, qaThresholds, rover] = await Promise.all([
+    getDayReview(actor, surveyId, date),
+    listDayReviewHistory(actor, surveyId, date),
+    listKp(actor, surveyId, { fromMs: day.value.firstTimeMs, toMs: day.value.lastTimeMs }),
+    getQaThresholds(actor, surveyId),
+    getDaySeries(actor, surveyId, date, { kind: "rover", maxPoints: 10 }) as Promise<RoverSeriesResponse>,
+  ]);
   const s = survey.value;
   const d = day.value;
   const canRun = roleAllows(s.myRole, "runs.create") && !s.archivedAt;
@@ -47,10 +59,20 @@ export default async function DayPage({ params }: Props) {
   const blocked =
     pairing.method === "none" ? (pairing.notes.at(-1) ?? "No base log for this day.") : pairing.roverLogs.length === 0 ? "No rover log on this day: upload the day's rover log first." : null;
   const lastRun = runs[0] ?? null;
-  const verdict = base.qa?.verdict;
+  const assessment = review.assessment;
+  const reasons = assessment.reasons.map((r) => r.text);
 
   const sidePanel = (
     <>
+      <ReviewPanel
+        surveyId={surveyId}
+        review={review}
+        history={history}
+        canSubmit={roleAllows(s.myRole, "day.submit") && !s.archivedAt}
+        canDecide={roleAllows(s.myRole, "day.decide") && !s.archivedAt}
+        lines={rover.lines.map((l) => l.line).filter((l) => l !== "")}
+        timeZone={s.timeZone}
+      />
       <section className="rounded-lg border border-ink-100 bg-white p-4 text-sm shadow-sm" aria-labelledby="pairing-heading">
         <h3 id="pairing-heading" className="mb-2 text-base font-semibold text-ink-900">Logs of the day</h3>
         <ul className="space-y-1 text-ink-700">
@@ -105,12 +127,9 @@ export default async function DayPage({ params }: Props) {
           </p>
         </div>
         <div className="flex flex-wrap items-center gap-2">
-          {verdict ? (
-            <StatusChip
-              label={`Base: ${verdict.level}`}
-              tone={VERDICT_TONE[verdict.level as keyof typeof VERDICT_TONE] ?? "neutral"}
-              detail={verdict.reasons.length ? verdict.reasons.join("; ") : "All QA metrics within the default thresholds"}
-            />
+          <ReviewStateChip state={review.state} />
+          {base.qa || assessment.level ? (
+            <VerdictChip level={assessment.level} reasons={reasons} />
           ) : (
             <StatusChip label="No base record" tone="warn" detail={pairing.notes.at(-1)} />
           )}
@@ -126,14 +145,15 @@ export default async function DayPage({ params }: Props) {
           <LinkButton href={`/surveys/${surveyId}/days/${date}/report`} variant="secondary">Day report</LinkButton>
         </div>
       </div>
-      {verdict && verdict.reasons.length > 0 ? (
-        <ul className="text-sm text-ink-700" aria-label="Why the base record is flagged">
-          {verdict.reasons.map((r) => (
+      {reasons.length > 0 ? (
+        <ul className="text-sm text-ink-700" aria-label="Why the day is flagged (survey QA thresholds)">
+          {reasons.map((r) => (
             <li key={r}>• {r}</li>
           ))}
         </ul>
       ) : null}
       <CautionNotice compact />
+      <KpStrip values={kp} limit={qaThresholds.thresholds.kpLimit} timeZone={s.timeZone} qaHref={`/surveys/${surveyId}/qa`} />
       <DayWorkspace
         surveyId={surveyId}
         day={date}

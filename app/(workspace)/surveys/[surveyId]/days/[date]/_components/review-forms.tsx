@@ -1,0 +1,73 @@
+"use client";
+/** Submit (processor, lead) and decide (reviewer) forms of the day's review panel. */
+import { useActionState, useState } from "react";
+import { fieldErrorsOf, formErrorOf, IDLE, successOf } from "@/src/ui/action-state";
+import { FieldErrors, TextAreaField, TextField } from "@/src/ui/field";
+import { FormError, FormSuccess } from "@/src/ui/form-message";
+import { SubmitButton } from "@/src/ui/submit-button";
+import { decideDayAction, submitDayAction } from "../review-actions";
+
+export function SubmitDayForm({ surveyId, day, again }: { surveyId: string; day: string; again: boolean }) {
+  const [state, action] = useActionState(submitDayAction.bind(null, surveyId, day), IDLE);
+  const errors = fieldErrorsOf(state);
+  return (
+    <form action={action} className="space-y-3" noValidate>
+      <TextAreaField id="submit-comment" name="comment" label="Note for the reviewer" optional rows={2} maxLength={4000} errors={errors.comment} hint="E.g. what was re-walked, or anything odd in the base record." />
+      <FormError message={formErrorOf(state)} />
+      <FormSuccess message={successOf(state)} />
+      <SubmitButton pendingLabel="submitting" className="w-full">{again ? "Submit again for review" : "Submit for review"}</SubmitButton>
+    </form>
+  );
+}
+
+export function DecideDayForm({ surveyId, day, lines }: { surveyId: string; day: string; lines: string[] }) {
+  const [state, action] = useActionState(decideDayAction.bind(null, surveyId, day), IDLE);
+  const [decision, setDecision] = useState<"accept" | "resurvey">("accept");
+  const [scope, setScope] = useState<"day" | "lines">("day");
+  const errors = fieldErrorsOf(state);
+  return (
+    <form action={action} className="space-y-3" noValidate>
+      <fieldset>
+        <legend className="mb-1 text-sm font-medium text-ink-800">Decision</legend>
+        <label className="flex items-center gap-2 text-sm"><input type="radio" name="decision" value="accept" checked={decision === "accept"} onChange={() => setDecision("accept")} /> Accept the day</label>
+        <label className="flex items-center gap-2 text-sm"><input type="radio" name="decision" value="resurvey" checked={decision === "resurvey"} onChange={() => setDecision("resurvey")} /> Re-survey needed</label>
+        <FieldErrors id="decision-error" errors={errors.decision} />
+      </fieldset>
+      {decision === "resurvey" ? (
+        <>
+          <fieldset>
+            <legend className="mb-1 text-sm font-medium text-ink-800">What must be walked again</legend>
+            <label className="flex items-center gap-2 text-sm"><input type="radio" name="scope" value="day" checked={scope === "day"} onChange={() => setScope("day")} /> The whole day</label>
+            <label className="flex items-center gap-2 text-sm"><input type="radio" name="scope" value="lines" checked={scope === "lines"} onChange={() => setScope("lines")} /> Listed lines</label>
+            <FieldErrors id="scope-error" errors={errors.scope} />
+          </fieldset>
+          {scope === "lines" ? (
+            <TextField
+              id="decide-lines"
+              name="lines"
+              label="Lines to re-walk"
+              placeholder={lines.slice(0, 2).join(", ") || "L100, L101"}
+              hint={lines.length ? `Lines of the day: ${lines.join(", ")}` : "Separate names with commas or spaces."}
+              errors={errors.lines}
+            />
+          ) : null}
+        </>
+      ) : null}
+      <TextAreaField
+        id="decide-comment"
+        name="comment"
+        label={decision === "resurvey" ? "Comment for the crew" : "Comment"}
+        optional={decision === "accept"}
+        rows={3}
+        maxLength={4000}
+        errors={errors.comment}
+        hint={decision === "resurvey" ? "Required: say why (the crew and processor get it by mail)." : undefined}
+      />
+      <FormError message={formErrorOf(state)} />
+      <FormSuccess message={successOf(state)} />
+      <SubmitButton pendingLabel="saving" variant={decision === "accept" ? "primary" : "danger"} className="w-full">
+        {decision === "accept" ? "Accept day" : "Send back for re-survey"}
+      </SubmitButton>
+    </form>
+  );
+}
