@@ -141,7 +141,7 @@ describe("correct", () => {
 
 describe("CSV number output", () => {
   it("prints fixed decimals like Number#toFixed for values read from 2-decimal logs", async () => {
-    const { CsvByteWriter } = await import("@/src/cli/csv-output");
+    const { CsvByteWriter } = await import("@/src/core/csv");
     const chunks: Buffer[] = [];
     const w = new CsvByteWriter((b) => void chunks.push(Buffer.from(b)), 1 << 16);
     const values: Array<[number, number]> = [];
@@ -166,7 +166,7 @@ describe("CSV number output", () => {
 
 describe("CSV time output", () => {
   it("prints ISO 8601 UTC with ms exactly like Date#toISOString", async () => {
-    const { CsvByteWriter } = await import("@/src/cli/csv-output");
+    const { CsvByteWriter } = await import("@/src/core/csv");
     const chunks: Buffer[] = [];
     const w = new CsvByteWriter((b) => void chunks.push(Buffer.from(b)), 1 << 16);
     const times: number[] = [];

@@ -5,8 +5,7 @@
  * rover's own reoccupations of a base point), then subtraction of the main field (IGRF-14 by
  * default). One output row per readable rover row, in input order, columns
  *   time,lat,lon,height_m,line,raw_nT,base_nT,diurnal_nT,corrected_nT,reference_nT,residual_nT,flags
- * time ISO 8601 UTC with ms; nT to 0.001, degrees to 0.0000001 (~1 cm), height to 0.001 m; empty
- * cell = no value; flags joined with `|`.
+ * written by src/core/correction/corrected-csv.ts (the server's run export uses the same rows).
  *
  * Times: --timezone applies to naive times of both logs; --base-timezone / --rover-timezone override
  * it per log; a GPS-basis log is read as GPS time (no zone) and turned to UTC with the leap-second
@@ -20,10 +19,10 @@ import path from "node:path";
 import { z } from "zod";
 import {
   correctReadings,
-  createFlagJoiner,
   createReferenceEvaluator,
   loopBaseFromStation,
   prepareBaseSeries,
+  writeCorrectedCsv,
   type BasePosition,
   type CorrectionResult,
   type DatumChoice,
@@ -34,7 +33,7 @@ import type { FieldModel } from "../../core/reference-field";
 import { extent, median } from "../../core/series";
 import { loadReferenceModel, ReferenceModelFileError } from "../../lib/reference-model";
 import { CliError } from "../cli-error";
-import { AtomicFileWriter, CsvByteWriter } from "../csv-output";
+import { AtomicFileWriter } from "../atomic-file-writer";
 import { readLogFile, reportLogProblems } from "../log-file";
 import { numberOption, parseStringOptions } from "../option-args";
 
@@ -44,13 +43,6 @@ const USAGE =
   "[--base-timezone Area/City] [--rover-timezone Area/City] [--date yyyy-mm-dd (for times of day alone)] [--date-order dmy|mdy] " +
   "[--base-time-basis utc|gps] [--rover-time-basis utc|gps] [--base-clock-offset-s X] [--rover-clock-offset-s X] " +
   "[--instrument-offset-nt X] [--igrf-file PATH] [--base-lat D --base-lon D --base-height-m M] [--min-field-nt N] [--max-field-nt N]";
-
-export const OUTPUT_COLUMNS = [
-  "time", "lat", "lon", "height_m", "line", "raw_nT", "base_nT", "diurnal_nT", "corrected_nT", "reference_nT", "residual_nT", "flags",
-] as const;
-const NT_DECIMALS = 3;
-const DEG_DECIMALS = 7;
-const HEIGHT_DECIMALS = 3;
 
 const finite = (flag: string) => numberOption(flag);
 
@@ -125,11 +117,6 @@ function fieldRange(o: CorrectOptions) {
   return range;
 }
 
-/** @deprecated kept for existing callers: use createReferenceEvaluator from src/core/correction. */
-export function referenceEvaluatorFor(model: FieldModel, rover: LogReadings, baseTimes: ArrayLike<number>, basePos: BasePosition | null): ReferenceFieldEvaluator {
-  return createReferenceEvaluator(model, rover, { baseTimeMs: baseTimes, basePosition: basePos });
-}
-
 function basePositionFrom(o: CorrectOptions, base: LogReadings | null): BasePosition | null {
   if (o["base-lat"] !== undefined && o["base-lon"] !== undefined) {
     return { latDeg: o["base-lat"], lonDeg: o["base-lon"], heightM: o["base-height-m"] ?? 0 };
@@ -153,45 +140,6 @@ function zoneFor(own: string | undefined, shared: string, basis: "utc" | "gps"):
 function timeSpan(times: ArrayLike<number>): string {
   const { min, max } = extent(times);
   return Number.isFinite(min) ? `${new Date(min).toISOString()} – ${new Date(max).toISOString()}` : "no times";
-}
-
-/** Write the corrected rows; row i of the output is rover reading i. */
-export async function writeCorrectedCsv(out: AtomicFileWriter, rover: LogReadings, result: CorrectionResult): Promise<void> {
-  const w = new CsvByteWriter((bytes) => out.writeBytesAsync(bytes));
-  const joinFlags = createFlagJoiner("|");
-  const { timeMs, fieldNt, latDeg, lonDeg, heightM, line } = rover;
-  const { baseNt, diurnalNt, correctedNt, referenceNt, residualNt, flags } = result;
-  const COMMA = 44;
-  w.text(OUTPUT_COLUMNS.join(","));
-  w.byte(10);
-  for (let i = 0; i < rover.count; i++) {
-    w.isoTime(timeMs[i]);
-    w.byte(COMMA);
-    if (latDeg) w.fixed(latDeg[i], DEG_DECIMALS);
-    w.byte(COMMA);
-    if (lonDeg) w.fixed(lonDeg[i], DEG_DECIMALS);
-    w.byte(COMMA);
-    if (heightM) w.fixed(heightM[i], HEIGHT_DECIMALS);
-    w.byte(COMMA);
-    if (line) w.cell(line[i]);
-    w.byte(COMMA);
-    w.fixed(fieldNt[i], NT_DECIMALS);
-    w.byte(COMMA);
-    w.fixed(baseNt[i], NT_DECIMALS);
-    w.byte(COMMA);
-    w.fixed(diurnalNt[i], NT_DECIMALS);
-    w.byte(COMMA);
-    w.fixed(correctedNt[i], NT_DECIMALS);
-    w.byte(COMMA);
-    w.fixed(referenceNt[i], NT_DECIMALS);
-    w.byte(COMMA);
-    w.fixed(residualNt[i], NT_DECIMALS);
-    w.byte(COMMA);
-    if (flags[i]) w.cell(joinFlags(flags[i]));
-    w.byte(10);
-    if (w.nearlyFull) await w.handOff();
-  }
-  await w.finish();
 }
 
 export async function run(argv: string[]): Promise<void> {
@@ -275,7 +223,7 @@ export async function run(argv: string[]): Promise<void> {
 
   const writer = new AtomicFileWriter(o.out);
   try {
-    await writeCorrectedCsv(writer, rover, result);
+    await writeCorrectedCsv({ writeBytes: (bytes) => writer.writeBytesAsync(bytes) }, rover, result);
     writer.commit();
   } catch (err) {
     writer.abort();

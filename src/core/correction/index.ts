@@ -23,3 +23,4 @@ export {
   type RoverReadings,
 } from "./correct-readings";
 export { createReferenceEvaluator, type ReferenceEvaluatorContext } from "./reference-adapter";
+export { CORRECTED_CSV_COLUMNS, writeCorrectedCsv, type CorrectedCsvColumn, type CorrectedCsvRover } from "./corrected-csv";

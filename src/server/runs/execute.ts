@@ -9,6 +9,7 @@ import "server-only";
 import type { Knex } from "knex";
 import {
   createCorrector,
+  createReferenceEvaluator,
   duplicateTimeMarks,
   loopBaseFromStation,
   prepareBaseSeries,
@@ -19,7 +20,6 @@ import {
 } from "@/src/core/correction";
 import type { LogReadings } from "@/src/core/logs";
 import { median } from "@/src/core/series";
-import { referenceEvaluatorFor } from "@/src/cli/commands/correct";
 import { loadReferenceModel } from "@/src/lib/reference-model";
 import { concatReadings, loadLogReadings } from "../days/readings-store";
 import { nowIso } from "../time";
@@ -92,7 +92,7 @@ export async function computeRun(db: Knex, p: RunParameters, onProgress: (fracti
   let reference: ReferenceFieldEvaluator | null = null;
   if (p.referenceModel) {
     const model = loadReferenceModel(p.referenceModel);
-    reference = referenceEvaluatorFor(model, rover, base.timeMs, basePosition);
+    reference = createReferenceEvaluator(model, rover, { baseTimeMs: base.timeMs, basePosition });
     facts.model = { name: model.name, version: model.version };
   }
   const options: CorrectionOptions = {

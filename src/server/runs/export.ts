@@ -4,11 +4,10 @@ import "server-only";
  * are written by the very function the CLI `correct` command uses (same columns, same rounding),
  * after header comment lines that say what the numbers are. Needs the "export" permission.
  */
-import { flagNames, type CorrectionResult } from "@/src/core/correction";
+import { CORRECTED_CSV_COLUMNS, flagNames, writeCorrectedCsv, type CorrectionResult } from "@/src/core/correction";
+import { createFixedFormatter } from "@/src/core/csv";
 import type { LogReadings } from "@/src/core/logs";
 import { gpsMinusUtcSecondsAtUtc, createIsoUtcFormatter } from "@/src/core/time";
-import { writeCorrectedCsv, OUTPUT_COLUMNS } from "@/src/cli/commands/correct";
-import { createFixedFormatter, type AtomicFileWriter } from "@/src/cli/csv-output";
 import type { Actor } from "../auth/actor";
 import { getDb } from "../db/client";
 import { getRunResult, type RunRecord, type RunResult } from "./service";
@@ -16,7 +15,7 @@ import { getRunResult, type RunRecord, type RunResult } from "./service";
 export const CAUTION_TEXT =
   "Residuals locate anomalies relative to the survey datum; they are no clearance for digging. Before any excavation, have buried services and ordnance cleared by licensed specialists and follow local codes.";
 
-const COLUMN_NOTES: Record<(typeof OUTPUT_COLUMNS)[number], string> = {
+const COLUMN_NOTES: Record<(typeof CORRECTED_CSV_COLUMNS)[number], string> = {
   time: "reading time, ISO 8601 UTC",
   lat: "latitude, degrees WGS84",
   lon: "longitude, degrees WGS84",
@@ -78,7 +77,7 @@ export async function exportHeaderLines(survey: { code: string; name: string }, 
     ...run.inputs.map((i) => `input: ${i.role} log ${i.logId} "${i.originalName}" sha256 ${i.sha256}`),
     `readings: ${columns.count}`,
     `caution: ${CAUTION_TEXT}`,
-    ...OUTPUT_COLUMNS.map((c) => `column ${c}: ${COLUMN_NOTES[c]}`),
+    ...CORRECTED_CSV_COLUMNS.map((c) => `column ${c}: ${COLUMN_NOTES[c]}`),
   ].map((l) => `# ${l.replace(/[\r\n]+/g, " ")}`);
 }
 
@@ -128,15 +127,8 @@ export async function exportRunCsv(actor: Actor, surveyId: string, day: unknown,
   const chunks: Uint8Array[] = [Buffer.from((await exportHeaderLines(survey, result)).join("\n") + "\n", "utf8")];
   await recordExport(actor, surveyId, result.run, "csv");
   const { rover, corrected } = asCliInputs(result);
-  // The CLI's row writer hands its (reused) buffers to a file writer; this one copies each piece
-  // into memory instead. It offers every write method the CLI's AtomicFileWriter has.
-  const keep = (bytes: Uint8Array) => void chunks.push(Buffer.from(bytes));
-  const sink = {
-    write: (text: string) => void chunks.push(Buffer.from(text, "utf8")),
-    writeBytes: keep,
-    writeBytesAsync: async (bytes: Uint8Array) => keep(bytes),
-  } as unknown as AtomicFileWriter;
-  await writeCorrectedCsv(sink, rover, corrected);
+  // the row writer reuses its buffers: each piece is copied into memory
+  await writeCorrectedCsv({ writeBytes: (bytes) => void chunks.push(Buffer.from(bytes)) }, rover, corrected);
   return { fileName: exportFileName(survey.code, result.run.day, result.run.number, "csv"), chunks };
 }
 

@@ -1,104 +1,7 @@
-/**
- * Fast CSV cell formatting for large outputs, and an atomic file writer (no partial writes).
- * Node only.
- */
-import fs from "node:fs";
+/** CSV rows written as bytes (pure: Uint8Array and TextEncoder only, no Node Buffer). */
+import { csvCell, POW10 } from "./cells";
 
-const POW10 = [1, 10, 100, 1000, 10_000, 100_000, 1_000_000, 10_000_000, 100_000_000, 1_000_000_000];
-
-/**
- * `x` with exactly `decimals` digits (0–9) after the point, "" for NaN. Rounds x·10^d half away
- * from zero in binary arithmetic, so a value lying exactly on a decimal tie may differ from
- * Number#toFixed in the last digit; magnitudes beyond 2^53 / 10^d fall back to toFixed.
- */
-export function createFixedFormatter(decimals: number): (x: number) => string {
-  if (!Number.isInteger(decimals) || decimals < 0 || decimals >= POW10.length) throw new RangeError("decimals must be 0–9");
-  const scale = POW10[decimals];
-  const limit = Number.MAX_SAFE_INTEGER / scale;
-  const zeros = "0".repeat(decimals);
-  return (x: number): string => {
-    if (x !== x) return "";
-    const ax = x < 0 ? -x : x;
-    if (ax >= limit) return x.toFixed(decimals);
-    const scaled = Math.round(ax * scale);
-    if (decimals === 0) return (x < 0 && scaled !== 0 ? "-" : "") + scaled;
-    const whole = Math.floor(scaled / scale);
-    const frac = scaled - whole * scale;
-    const fracText = String(frac);
-    const sign = x < 0 && scaled !== 0 ? "-" : "";
-    return sign + whole + "." + (fracText.length < decimals ? zeros.slice(fracText.length) + fracText : fracText);
-  };
-}
-
-/** RFC 4180 quoting of one text cell when it holds a comma, quote or line break. */
-export function csvCell(text: string): string {
-  return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
-}
-
-/**
- * Write a file atomically: chunks go to a temporary file beside the target, renamed into place on
- * `commit()`; `abort()` removes it. Nothing appears at the target unless the whole write succeeds.
- */
-export class AtomicFileWriter {
-  private readonly temporary: string;
-  private fd: number | null;
-  private pending: string[] = [];
-  private pendingChars = 0;
-
-  constructor(private readonly target: string, private readonly flushChars = 1 << 20) {
-    this.temporary = `${target}.${process.pid}.tmp`;
-    this.fd = fs.openSync(this.temporary, "w");
-  }
-
-  /** Raw bytes, written in order after any pending text. */
-  writeBytes(bytes: Uint8Array): void {
-    this.flush();
-    if (this.fd !== null) fs.writeSync(this.fd, bytes);
-  }
-
-  /** Raw bytes written by the thread pool; the caller keeps `bytes` untouched until it settles. */
-  writeBytesAsync(bytes: Uint8Array): Promise<void> {
-    this.flush();
-    const fd = this.fd;
-    if (fd === null) return Promise.reject(new Error("writer already closed"));
-    return new Promise((resolve, reject) => {
-      const step = (offset: number) =>
-        fs.write(fd, bytes, offset, bytes.length - offset, null, (err, written) => {
-          if (err) reject(err);
-          else if (offset + written < bytes.length) step(offset + written);
-          else resolve();
-        });
-      step(0);
-    });
-  }
-
-  write(text: string): void {
-    this.pending.push(text);
-    this.pendingChars += text.length;
-    if (this.pendingChars >= this.flushChars) this.flush();
-  }
-
-  private flush(): void {
-    if (this.fd === null || this.pending.length === 0) return;
-    fs.writeSync(this.fd, this.pending.join(""));
-    this.pending = [];
-    this.pendingChars = 0;
-  }
-
-  commit(): void {
-    this.flush();
-    if (this.fd !== null) fs.closeSync(this.fd);
-    this.fd = null;
-    fs.renameSync(this.temporary, this.target);
-  }
-
-  abort(): void {
-    if (this.fd !== null) fs.closeSync(this.fd);
-    this.fd = null;
-    fs.rmSync(this.temporary, { force: true });
-  }
-}
-
+const UTF8 = new TextEncoder();
 const MS_PER_DAY = 86_400_000;
 const C_ZERO = 48;
 const C_MINUS = 45;
@@ -116,23 +19,31 @@ const DIGITS3 = (() => {
 })();
 
 /**
+ * Where finished bytes go (a file, memory, a response). A sink that returns a promise may keep the
+ * bytes until it settles; one that returns nothing must have consumed or copied them.
+ */
+export interface ByteSink {
+  writeBytes(bytes: Uint8Array): void | Promise<void>;
+}
+
+/**
  * CSV rows straight into a byte buffer: numbers, ISO times and cells are written as ASCII digits
  * without building strings, so a million-row output makes no garbage. Full buffers go to `sink`
- * (which must consume the bytes before returning; the buffer is reused).
+ * (the buffer is reused once the sink is done with it).
  * Numbers: same rounding as createFixedFormatter; NaN writes nothing (an empty cell).
  */
 export class CsvByteWriter {
-  private buf: Buffer;
-  private spare: Buffer;
+  private buf: Uint8Array;
+  private spare: Uint8Array;
   private pos = 0;
   private inFlight: Promise<void> = Promise.resolve();
   private dayCached = NaN;
-  private dayPrefix = Buffer.alloc(11);
+  private dayPrefix = new Uint8Array(11);
   private secondCached = NaN;
   private readonly secondPrefix = new Uint8Array(20);
-  private readonly textCache = new Map<string, Buffer>();
+  private readonly textCache = new Map<string, Uint8Array>();
   private lastText = "";
-  private lastBytes: Buffer | undefined = Buffer.alloc(0);
+  private lastBytes: Uint8Array | undefined = new Uint8Array(0);
 
   /**
    * `sink` receives full buffers in order. A sink that returns a promise may keep the bytes until
@@ -140,15 +51,15 @@ export class CsvByteWriter {
    * formatting) and `finish()` at the end.
    */
   constructor(private readonly sink: (bytes: Uint8Array) => void | Promise<void>, private readonly capacity = 1 << 22) {
-    this.buf = Buffer.allocUnsafe(capacity);
-    this.spare = Buffer.allocUnsafe(capacity);
+    this.buf = new Uint8Array(capacity);
+    this.spare = new Uint8Array(capacity);
   }
 
   /** Make room for n more bytes by growing the buffer (never writes, so order stays with handOff). */
   private room(n: number): void {
     if (this.pos + n > this.buf.length) {
-      const bigger = Buffer.allocUnsafe(Math.max(this.buf.length * 2, this.pos + n));
-      this.buf.copy(bigger, 0, 0, this.pos);
+      const bigger = new Uint8Array(Math.max(this.buf.length * 2, this.pos + n));
+      bigger.set(this.buf.subarray(0, this.pos));
       this.buf = bigger;
     }
   }
@@ -166,7 +77,7 @@ export class CsvByteWriter {
     await previous;
     this.inFlight = Promise.resolve(this.sink(full));
     const next = this.spare;
-    this.spare = this.buf.length === this.capacity ? this.buf : Buffer.allocUnsafe(this.capacity);
+    this.spare = this.buf.length === this.capacity ? this.buf : new Uint8Array(this.capacity);
     // the buffer just handed off is reused only after its write settles (awaited at the next handOff)
     this.buf = next;
     this.pos = 0;
@@ -185,7 +96,7 @@ export class CsvByteWriter {
 
   /** Text written as is (UTF-8), e.g. a header row. */
   text(text: string): void {
-    const bytes = Buffer.from(text, "utf8");
+    const bytes = UTF8.encode(text);
     this.room(bytes.length);
     this.buf.set(bytes, this.pos);
     this.pos += bytes.length;
@@ -196,7 +107,7 @@ export class CsvByteWriter {
     let bytes = text === this.lastText ? this.lastBytes : this.textCache.get(text);
     this.lastText = text;
     if (bytes === undefined) {
-      bytes = Buffer.from(csvCell(text), "utf8");
+      bytes = UTF8.encode(csvCell(text));
       if (this.textCache.size < 100_000) this.textCache.set(text, bytes);
     }
     this.lastBytes = bytes;
@@ -288,7 +199,8 @@ export class CsvByteWriter {
     const day = Math.floor(timeMs / MS_PER_DAY);
     if (day !== this.dayCached) {
       this.dayCached = day;
-      this.dayPrefix = Buffer.from(new Date(day * MS_PER_DAY).toISOString().slice(0, 11), "latin1");
+      const iso = new Date(day * MS_PER_DAY).toISOString(); // ASCII
+      for (let i = 0; i < 11; i++) this.dayPrefix[i] = iso.charCodeAt(i);
     }
     const b = this.secondPrefix;
     b.set(this.dayPrefix, 0);

@@ -1,0 +1,2 @@
+export { createFixedFormatter, csvCell } from "./cells";
+export { CsvByteWriter, type ByteSink } from "./csv-byte-writer";
