@@ -76,7 +76,10 @@ export interface Corrector {
   /**
    * Correct one batch. Duplicate times: `duplicateMarks` (e.g. duplicateTimeMarks over the whole
    * log, sliced to this batch) when given; otherwise a reading equal in time to the previous one
-   * (also across batches) is flagged with it.
+   * is flagged with it, also across batches: then the previous batch's last reading gains the
+   * duplicate_time flag in the columns already returned for it. So without marks a batch's flags
+   * are final once the next batch has been corrected; a caller that hands each batch on at once
+   * passes marks.
    */
   correctBatch(rover: RoverReadings, duplicateMarks?: Uint8Array): CorrectionColumns;
   summary(): CorrectionSummary;
@@ -111,6 +114,8 @@ export function createCorrector(base: BaseSeries, reference: ReferenceFieldEvalu
   let correctedCount = 0;
   let residualCount = 0;
   let prevTimeMs = NaN;
+  let prevFlags: Uint8Array | null = null; // flags of the last reading corrected so far: prevFlags[prevIndex]
+  let prevIndex = -1;
   let offset = 0; // index of the batch's first reading in the whole log
   let heightDefaulted = 0;
   const baseHeightM = basePos && Number.isFinite(basePos.heightM) ? basePos.heightM : defaultHeightM;
@@ -134,9 +139,14 @@ export function createCorrector(base: BaseSeries, reference: ReferenceFieldEvalu
       const t = timeMs[i];
       let flags = 0;
       if (duplicate ? duplicate[i] : t === prevTimeMs) flags |= CorrectionFlag.duplicateTime;
-      if (!duplicate && t === prevTimeMs && i > 0 && !(out.flags[i - 1] & CorrectionFlag.duplicateTime)) {
-        out.flags[i - 1] |= CorrectionFlag.duplicateTime; // mark both members of an adjacent pair
-        flagCounts.duplicate_time++;
+      if (!duplicate && t === prevTimeMs) {
+        // mark both members of an adjacent pair (the first may sit in the previous batch)
+        const earlier = i > 0 ? out.flags : prevFlags!;
+        const k = i > 0 ? i - 1 : prevIndex;
+        if (!(earlier[k] & CorrectionFlag.duplicateTime)) {
+          earlier[k] |= CorrectionFlag.duplicateTime;
+          flagCounts.duplicate_time++;
+        }
       }
       prevTimeMs = t;
       if (occupations && occupations.has(offset + i)) flags |= CorrectionFlag.baseOccupation;
@@ -189,6 +199,10 @@ export function createCorrector(base: BaseSeries, reference: ReferenceFieldEvalu
         if (flags & CorrectionFlag.noPosition) flagCounts.no_position++;
         if (flags & CorrectionFlag.baseOccupation) flagCounts.base_occupation++;
       }
+    }
+    if (n > 0) {
+      prevFlags = out.flags;
+      prevIndex = n - 1;
     }
     total += n;
     offset += n;

@@ -119,4 +119,26 @@ describe("continuous base", () => {
     expect(c.summary().count).toBe(4);
     expect(flagNames(b.flags[0])).toContain("duplicate_time");
   });
+
+  // Regression: a duplicate-time pair split across two batches flagged only its second member.
+  it("batches flag both members of a duplicate-time pair split between them, as the whole-log form does", () => {
+    const log = { timeMs: [s(10), s(20), s(20), s(20), s(40), s(40), s(50)], fieldNt: [48401, 48402, 48403, 48404, 48405, 48406, 48407] };
+    const whole = correctReadings(log, base, null, { datum: 48300 });
+    expect(Array.from(whole.flags, (f) => flagNames(f).includes("duplicate_time"))).toEqual([false, true, true, true, true, true, false]);
+    // every way of cutting the log into batches (cut points as bits), empty batches included
+    for (let cuts = 0; cuts < 1 << 6; cuts++) {
+      const c = createCorrector(base, null, { datum: 48300 });
+      const batches = [];
+      let from = 0;
+      for (let k = 1; k <= 7; k++) {
+        if (k === 7 || cuts & (1 << (k - 1))) {
+          batches.push(c.correctBatch({ timeMs: log.timeMs.slice(from, k), fieldNt: log.fieldNt.slice(from, k) }));
+          if (k === 4) c.correctBatch({ timeMs: [], fieldNt: [] });
+          from = k;
+        }
+      }
+      expect(batches.flatMap((b) => Array.from(b.flags)), `cuts ${cuts.toString(2)}`).toEqual(Array.from(whole.flags));
+      expect(c.summary().flagCounts).toEqual(whole.summary.flagCounts);
+    }
+  });
 });
