@@ -6,22 +6,42 @@ import { FieldErrors, TextAreaField, TextField } from "@/src/ui/field";
 import { FormError, FormSuccess } from "@/src/ui/form-message";
 import { SubmitButton } from "@/src/ui/submit-button";
 import { decideDayAction, submitDayAction } from "../review-actions";
+import type { ActionState } from "@/src/ui/action-state";
+import type { ReviewState } from "@/src/server/review/states";
 
-export function SubmitDayForm({ surveyId, day, again }: { surveyId: string; day: string; again: boolean }) {
-  const [state, action] = useActionState(submitDayAction.bind(null, surveyId, day), IDLE);
+/**
+ * Holds both forms' action state, so the outcome (who was mailed) stays on screen after the page
+ * refreshes into the next review state and the form that sent it is no longer offered.
+ */
+export function ReviewControls({ surveyId, day, state, canSubmit, canDecide, lines }: { surveyId: string; day: string; state: ReviewState; canSubmit: boolean; canDecide: boolean; lines: string[] }) {
+  const [submitState, submitAction] = useActionState(submitDayAction.bind(null, surveyId, day), IDLE);
+  const [decideState, decideAction] = useActionState(decideDayAction.bind(null, surveyId, day), IDLE);
+  const showSubmit = canSubmit && (state === "in_processing" || state === "resurvey_needed");
+  const showDecide = canDecide && state === "awaiting_review";
+  return (
+    <div className="space-y-3">
+      {!showSubmit ? <FormSuccess message={successOf(submitState)} /> : null}
+      {!showDecide ? <FormSuccess message={successOf(decideState)} /> : null}
+      {showSubmit ? <SubmitDayForm state={submitState} action={submitAction} again={state === "resurvey_needed"} /> : null}
+      {showDecide ? <DecideDayForm state={decideState} action={decideAction} lines={lines} /> : null}
+    </div>
+  );
+}
+
+type FormProps = { state: ActionState; action: (formData: FormData) => void };
+
+function SubmitDayForm({ state, action, again }: FormProps & { again: boolean }) {
   const errors = fieldErrorsOf(state);
   return (
     <form action={action} className="space-y-3" noValidate>
       <TextAreaField id="submit-comment" name="comment" label="Note for the reviewer" optional rows={2} maxLength={4000} errors={errors.comment} hint="E.g. what was re-walked, or anything odd in the base record." />
       <FormError message={formErrorOf(state)} />
-      <FormSuccess message={successOf(state)} />
       <SubmitButton pendingLabel="submitting" className="w-full">{again ? "Submit again for review" : "Submit for review"}</SubmitButton>
     </form>
   );
 }
 
-export function DecideDayForm({ surveyId, day, lines }: { surveyId: string; day: string; lines: string[] }) {
-  const [state, action] = useActionState(decideDayAction.bind(null, surveyId, day), IDLE);
+function DecideDayForm({ state, action, lines }: FormProps & { lines: string[] }) {
   const [decision, setDecision] = useState<"accept" | "resurvey">("accept");
   const [scope, setScope] = useState<"day" | "lines">("day");
   const errors = fieldErrorsOf(state);
@@ -64,7 +84,6 @@ export function DecideDayForm({ surveyId, day, lines }: { surveyId: string; day:
         hint={decision === "resurvey" ? "Required: say why (the crew and processor get it by mail)." : undefined}
       />
       <FormError message={formErrorOf(state)} />
-      <FormSuccess message={successOf(state)} />
       <SubmitButton pendingLabel="saving" variant={decision === "accept" ? "primary" : "danger"} className="w-full">
         {decision === "accept" ? "Accept day" : "Send back for re-survey"}
       </SubmitButton>

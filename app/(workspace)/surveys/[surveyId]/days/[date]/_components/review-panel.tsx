@@ -3,7 +3,7 @@ import type { DayReview, ReviewEvent } from "@/src/server/review/service";
 import { REVIEW_STATE_LABELS, type ReviewState } from "@/src/server/review/states";
 import { formatDateTime } from "@/src/ui/format";
 import { ReviewStateChip } from "@/src/ui/review-chips";
-import { DecideDayForm, SubmitDayForm } from "./review-forms";
+import { ReviewControls } from "./review-forms";
 
 type Props = {
   surveyId: string;
@@ -43,8 +43,7 @@ export function ReviewPanel({ surveyId, review, history, canSubmit, canDecide, l
       ) : null}
       {s === "accepted" ? <p className="mb-3 text-moss-700">Accepted by {review.decidedBy ?? "unknown"}{review.comment ? `: ${review.comment}` : "."}</p> : null}
       {s === "awaiting_review" ? <p className="mb-3 text-ink-700">Submitted by {review.submittedBy ?? "unknown"}; a QA reviewer decides.</p> : null}
-      {canSubmit && (s === "in_processing" || s === "resurvey_needed") ? <SubmitDayForm surveyId={surveyId} day={review.day} again={s === "resurvey_needed"} /> : null}
-      {canDecide && s === "awaiting_review" ? <DecideDayForm surveyId={surveyId} day={review.day} lines={lines} /> : null}
+      {canSubmit || canDecide ? <ReviewControls surveyId={surveyId} day={review.day} state={s} canSubmit={canSubmit} canDecide={canDecide} lines={lines} /> : null}
       {!canSubmit && !canDecide ? <p className="text-ink-600">A processor submits the day; a QA reviewer decides it.</p> : null}
       <h4 className="mt-4 mb-1 text-sm font-semibold text-ink-900">History</h4>
       {history.length === 0 ? (
