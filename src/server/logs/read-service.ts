@@ -13,7 +13,7 @@ import { getDb } from "../db/client";
 import { NotFoundError, parseInput } from "../errors";
 import { openStored, storedExists } from "../storage/original-files";
 import type { ProblemRow } from "./errors";
-import { lttbIndices } from "./lttb";
+import { lttbIndices } from "@/src/core/series/lttb";
 import type { LogKind, SensorType, TimeBasisChoice } from "./schema";
 import { logOriginalUrl, logUrl } from "./urls";
 
@@ -286,7 +286,7 @@ export async function getLogFieldSeries(actor: Actor, surveyId: string, logId: u
   const xs = times.subarray(0, k);
   const ys = fields.subarray(0, k);
   const keep = lttbIndices(xs, ys, maxPoints);
-  return { timeMs: keep.map((i) => xs[i]), fieldNt: keep.map((i) => ys[i]), totalPoints: k };
+  return { timeMs: Array.from(keep, (i) => xs[i]), fieldNt: Array.from(keep, (i) => ys[i]), totalPoints: k };
 }
 
 /** The stored original as a stream, with the name it was uploaded under. */

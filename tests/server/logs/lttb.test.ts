@@ -1,11 +1,14 @@
 /**
- * Largest-triangle-three-buckets thinning of the log chart, checked against the `downsample`
- * package's LTTB (an independent implementation of Steinarsson 2013, from the npm registry).
+ * Largest-triangle-three-buckets thinning of the log chart (the core's src/core/series/lttb.ts),
+ * checked against the `downsample` package's LTTB (an independent implementation of Steinarsson
+ * 2013, from the npm registry).
  */
 import { LTTB } from "downsample";
 import { describe, expect, it } from "vitest";
-import { lttbIndices } from "@/src/server/logs/lttb";
+import { lttbIndices as coreLttbIndices } from "@/src/core/series/lttb";
 import { headerSignature, previewHead } from "@/src/server/logs/header-signature";
+
+const lttbIndices = (xs: ArrayLike<number>, ys: ArrayLike<number>, threshold: number) => Array.from(coreLttbIndices(xs, ys, threshold));
 
 function series(n: number, seed: number) {
   let s = seed;
