@@ -5,13 +5,14 @@ import { fieldErrorsOf, formErrorOf, IDLE, successOf } from "@/src/ui/action-sta
 import { TextAreaField, TextField } from "@/src/ui/field";
 import { FormError, FormSuccess } from "@/src/ui/form-message";
 import { SubmitButton } from "@/src/ui/submit-button";
+import { submitWithoutReset } from "@/src/ui/submit-without-reset";
 import { saveKpAction } from "../actions";
 
 export function KpForm({ surveyId }: { surveyId: string }) {
   const [state, action] = useActionState(saveKpAction.bind(null, surveyId), IDLE);
   const errors = fieldErrorsOf(state);
   return (
-    <form action={action} className="space-y-3" noValidate>
+    <form action={action} onSubmit={submitWithoutReset(action)} className="space-y-3" noValidate>
       <TextAreaField
         id="kp-text"
         name="text"

@@ -6,13 +6,14 @@ import { fieldErrorsOf, formErrorOf, IDLE, successOf } from "@/src/ui/action-sta
 import { TextField } from "@/src/ui/field";
 import { FormError, FormSuccess } from "@/src/ui/form-message";
 import { SubmitButton } from "@/src/ui/submit-button";
+import { submitWithoutReset } from "@/src/ui/submit-without-reset";
 import { updateQaThresholdsAction } from "../actions";
 
 export function ThresholdsForm({ surveyId, thresholds, readOnly }: { surveyId: string; thresholds: QaThresholds; readOnly: boolean }) {
   const [state, action] = useActionState(updateQaThresholdsAction.bind(null, surveyId), IDLE);
   const errors = fieldErrorsOf(state);
   return (
-    <form action={action} className="space-y-3" noValidate>
+    <form action={action} onSubmit={submitWithoutReset(action)} className="space-y-3" noValidate>
       <div className="grid gap-3 sm:grid-cols-2">
         {QA_THRESHOLD_KEYS.map((k) => {
           const info = QA_THRESHOLD_INFO[k];

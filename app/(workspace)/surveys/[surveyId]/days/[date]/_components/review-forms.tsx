@@ -5,6 +5,7 @@ import { fieldErrorsOf, formErrorOf, IDLE, successOf } from "@/src/ui/action-sta
 import { FieldErrors, TextAreaField, TextField } from "@/src/ui/field";
 import { FormError, FormSuccess } from "@/src/ui/form-message";
 import { SubmitButton } from "@/src/ui/submit-button";
+import { submitWithoutReset } from "@/src/ui/submit-without-reset";
 import { decideDayAction, submitDayAction } from "../review-actions";
 import type { ActionState } from "@/src/ui/action-state";
 import type { ReviewState } from "@/src/server/review/states";
@@ -33,7 +34,7 @@ type FormProps = { state: ActionState; action: (formData: FormData) => void };
 function SubmitDayForm({ state, action, again }: FormProps & { again: boolean }) {
   const errors = fieldErrorsOf(state);
   return (
-    <form action={action} className="space-y-3" noValidate>
+    <form action={action} onSubmit={submitWithoutReset(action)} className="space-y-3" noValidate>
       <TextAreaField id="submit-comment" name="comment" label="Note for the reviewer" optional rows={2} maxLength={4000} errors={errors.comment} hint="E.g. what was re-walked, or anything odd in the base record." />
       <FormError message={formErrorOf(state)} />
       <SubmitButton pendingLabel="submitting" className="w-full">{again ? "Submit again for review" : "Submit for review"}</SubmitButton>
@@ -42,11 +43,11 @@ function SubmitDayForm({ state, action, again }: FormProps & { again: boolean })
 }
 
 function DecideDayForm({ state, action, lines }: FormProps & { lines: string[] }) {
-  const [decision, setDecision] = useState<"accept" | "resurvey">("accept");
+  const [decision, setDecision] = useState<"accept" | "resurvey" | null>(null); // no default: a decision is chosen, never assumed
   const [scope, setScope] = useState<"day" | "lines">("day");
   const errors = fieldErrorsOf(state);
   return (
-    <form action={action} className="space-y-3" noValidate>
+    <form action={action} onSubmit={submitWithoutReset(action)} className="space-y-3" noValidate>
       <fieldset>
         <legend className="mb-1 text-sm font-medium text-ink-800">Decision</legend>
         <label className="flex items-center gap-2 text-sm"><input type="radio" name="decision" value="accept" checked={decision === "accept"} onChange={() => setDecision("accept")} /> Accept the day</label>
@@ -84,8 +85,8 @@ function DecideDayForm({ state, action, lines }: FormProps & { lines: string[] }
         hint={decision === "resurvey" ? "Required: say why (the crew and processor get it by mail)." : undefined}
       />
       <FormError message={formErrorOf(state)} />
-      <SubmitButton pendingLabel="saving" variant={decision === "accept" ? "primary" : "danger"} className="w-full">
-        {decision === "accept" ? "Accept day" : "Send back for re-survey"}
+      <SubmitButton pendingLabel="saving" variant={decision === "resurvey" ? "danger" : "primary"} className="w-full">
+        {decision === "accept" ? "Accept day" : decision === "resurvey" ? "Send back for re-survey" : "Save decision"}
       </SubmitButton>
     </form>
   );
