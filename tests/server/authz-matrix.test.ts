@@ -242,8 +242,8 @@ function uploadForm(): FormData {
   const fd = new FormData();
   fd.append("kind", "rover");
   fd.append("acceptGoodRows", "true");
-  // Distinct bytes per upload (a later start time), so none is a duplicate of another.
-  const text = roverCsv({ lines: 1, perLine: 20 }).replace(/T08:3/g, `T1${uploadCounter % 10}:3`).replace(/T08:/g, `T1${uploadCounter % 10}:`);
+  // Distinct bytes per upload (its own line name), so none is refused as a duplicate of another.
+  const text = roverCsv({ lines: 1, perLine: 20 }).replace(/,L100,/g, `,M${uploadCounter},`);
   fd.append("file", new Blob([`${text}`], { type: "text/csv" }), `matrix-upload-${uploadCounter}.csv`);
   return fd;
 }
@@ -291,6 +291,33 @@ const ROUTE_CALLS: Record<string, RouteCall> = {
   },
   "GET /api/v1/surveys/[surveyId]/logs/[logId]/original": { request: (h) => new Request(`${ORIGIN}/api/v1/surveys/${fx.surveyId}/logs/${fx.roverLogId}/original`, { headers: h }), params: (f) => ({ surveyId: f.surveyId, logId: String(f.roverLogId) }) },
   "GET /api/v1/surveys/[surveyId]/logs/[logId]/problems": { request: (h) => new Request(`${ORIGIN}/api/v1/surveys/${fx.surveyId}/logs/${fx.roverLogId}/problems`, { headers: h }), params: (f) => ({ surveyId: f.surveyId, logId: String(f.roverLogId) }) },
+  // Review (issue 6): each POST starts from the state it needs, so only the caller decides the outcome.
+  "GET /api/v1/surveys/[surveyId]/days/[date]/review": { request: u("/api/v1/surveys/{S}/days/{D}/review"), params: day },
+  "POST /api/v1/surveys/[surveyId]/days/[date]/review/submit": {
+    request: async (h) => {
+      await getDb()("day_reviews").where({ survey_id: fx.surveyId, day: fx.day }).delete();
+      h.set("content-type", "application/json");
+      return new Request(`${ORIGIN}/api/v1/surveys/${fx.surveyId}/days/${fx.day}/review/submit`, { method: "POST", headers: h, body: JSON.stringify({ comment: "matrix" }) });
+    },
+    params: day,
+  },
+  "POST /api/v1/surveys/[surveyId]/days/[date]/review/decision": {
+    request: async (h) => {
+      const now = new Date().toISOString();
+      await getDb()("day_reviews").insert({ survey_id: fx.surveyId, day: fx.day, state: "awaiting_review", submitted_by: fx.processor.userId, submitted_at: now, updated_at: now }).onConflict(["survey_id", "day"]).merge();
+      h.set("content-type", "application/json");
+      return new Request(`${ORIGIN}/api/v1/surveys/${fx.surveyId}/days/${fx.day}/review/decision`, { method: "POST", headers: h, body: JSON.stringify({ decision: "accept" }) });
+    },
+    params: day,
+  },
+  "GET /api/v1/surveys/[surveyId]/kp": { request: u("/api/v1/surveys/{S}/kp"), params: survey },
+  "POST /api/v1/surveys/[surveyId]/kp": {
+    request: (h) => {
+      h.set("content-type", "text/csv");
+      return new Request(`${ORIGIN}/api/v1/surveys/${fx.surveyId}/kp`, { method: "POST", headers: h, body: "start,kp\n2026-05-04T12:00Z,2o\n" });
+    },
+    params: survey,
+  },
 };
 
 type Fn = (...args: unknown[]) => Promise<unknown>;
