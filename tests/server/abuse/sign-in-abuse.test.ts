@@ -138,6 +138,24 @@ describe("sessions", () => {
     expect((await validateSessionId(now!))?.userId).toBe(user.userId);
   });
 
+  it("the JSON sign-in route also ends the session id it was sent with and answers with a new one", async () => {
+    const user = await makeUser();
+    const planted = (await createSession(user.userId)).id;
+    const res = await signInRoute.POST(
+      new Request(`${ORIGIN}/api/v1/auth/sign-in`, {
+        method: "POST",
+        headers: { "content-type": "application/json", host: "localhost:3000", cookie: `${SESSION_COOKIE_NAME}=${planted}`, "x-forwarded-for": "198.51.100.41" },
+        body: JSON.stringify({ email: user.email, password: user.password }),
+      }),
+    );
+    expect(res.status).toBe(200);
+    const fresh = /fieldtide_session=([^;]+)/.exec(res.headers.get("set-cookie") ?? "")?.[1];
+    expect(fresh).toBeTruthy();
+    expect(fresh).not.toBe(planted);
+    expect(await validateSessionId(planted)).toBeNull();
+    expect((await validateSessionId(fresh!))?.userId).toBe(user.userId);
+  });
+
   it("refuses an expired session and extends one used in the second half of its life (lucia extend-on-use)", async () => {
     const user = await makeUser();
     const expired = (await createSession(user.userId)).id;
