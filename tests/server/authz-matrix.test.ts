@@ -53,7 +53,7 @@ process.env.UPLOAD_DIR = path.join(testDb.dir, "uploads");
 const { startTestSmtp, lastMailTo, tokenFromMail } = await import("../support/smtp");
 await startTestSmtp();
 
-const { ROUTE_ACCESS, ACTION_ACCESS } = await import("@/src/server/authz/route-access");
+const { ROUTE_ACCESS, ACTION_ACCESS, assertRouteAccess } = await import("@/src/server/authz/route-access");
 type Entry = import("@/src/server/authz/route-access").RouteAccessEntry;
 const { SURVEY_ROLES, roleAllows, SURVEY_NOT_FOUND } = await import("@/src/server/authz/permissions");
 const { ForbiddenError, NotFoundError, UnauthenticatedError } = await import("@/src/server/errors");
@@ -440,5 +440,18 @@ describe.each(Object.entries(ACTION_ACCESS) as [string, Entry][])("action %s", (
     const { outcome, detail } = await actionOutcome(() => recipe(fn));
     if (key.endsWith("#signOutEverywhereAction")) sessions.delete(caller); // all of the caller's sessions ended
     expect({ outcome, detail: outcome === expected(entry, caller) ? "" : detail }).toEqual({ outcome: expected(entry, caller), detail: "" });
+  });
+});
+
+// The helper that applies an entry in code agrees with what the handlers themselves did above.
+describe.each([...Object.entries(ROUTE_ACCESS), ...Object.entries(ACTION_ACCESS)] as [string, Entry][])("assertRouteAccess for %s", (_key, entry) => {
+  it.each(CALLERS)("as %s", async (caller) => {
+    let outcome: Outcome | "error" = "allowed";
+    try {
+      await assertRouteAccess(entry, caller === "anonymous" ? null : users.get(caller)!, fx.surveyId);
+    } catch (err) {
+      outcome = classifyError(err);
+    }
+    expect(outcome).toBe(expected(entry, caller));
   });
 });
