@@ -55,6 +55,11 @@ export const ROUTE_ACCESS = {
   "POST /api/v1/surveys/[surveyId]/logs": survey("logs.upload", true),
   "GET /api/v1/surveys/[surveyId]/logs/[logId]/original": survey("logs.read"),
   "GET /api/v1/surveys/[surveyId]/logs/[logId]/problems": survey("logs.read"),
+  [`GET ${DAY}/review`]: survey("days.read"),
+  [`POST ${DAY}/review/submit`]: survey("day.submit", true),
+  [`POST ${DAY}/review/decision`]: survey("day.decide", true),
+  "GET /api/v1/surveys/[surveyId]/kp": survey("days.read"),
+  "POST /api/v1/surveys/[surveyId]/kp": survey("kp.update", true),
 } as const satisfies Record<string, RouteAccessEntry>;
 
 /** Server actions are POST endpoints too (Next checks their Origin itself); all change state. */
