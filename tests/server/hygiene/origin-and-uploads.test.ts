@@ -28,6 +28,9 @@ const signInRoute = await import("@/app/api/v1/auth/sign-in/route");
 const signOutRoute = await import("@/app/api/v1/auth/sign-out/route");
 const runsRoute = await import("@/app/api/v1/surveys/[surveyId]/days/[date]/runs/route");
 const logsRoute = await import("@/app/api/v1/surveys/[surveyId]/logs/route");
+const submitRoute = await import("@/app/api/v1/surveys/[surveyId]/days/[date]/review/submit/route");
+const decisionRoute = await import("@/app/api/v1/surveys/[surveyId]/days/[date]/review/decision/route");
+const kpRoute = await import("@/app/api/v1/surveys/[surveyId]/kp/route");
 
 const ORIGIN = "http://localhost:3000";
 const EVIL = "https://fieldtide-lookalike.example";
@@ -36,12 +39,17 @@ let surveyId: string;
 /** A session of its own per call: sign-in rotates the session it is sent with, sign-out ends it. */
 const freshCookie = async () => `${SESSION_COOKIE_NAME}=${(await createSession(lead.userId)).id}`;
 let token: string;
+/** Only a QA reviewer decides a day: the decision route is called with a reviewer's session in place of the lead's. */
+let reviewerCookie: string;
 
 beforeAll(async () => {
   lead = await makeUser();
   surveyId = await makeSurvey();
   await addMember(surveyId, lead.userId, "lead");
   token = (await createApiToken(lead, { name: "Hygiene laptop" })).token;
+  const reviewer = await makeUser();
+  await addMember(surveyId, reviewer.userId, "reviewer");
+  reviewerCookie = `${SESSION_COOKIE_NAME}=${(await createSession(reviewer.userId)).id}`;
   await importLogStream(lead, surveyId, streamOf(baseCsv()), { fileName: "b.csv", kind: "base", baseSiteName: "Gate", baseLatitudeDeg: BASE_POSITION.latDeg, baseLongitudeDeg: BASE_POSITION.lonDeg });
   await importLogStream(lead, surveyId, streamOf(roverCsv({ lines: 1, perLine: 60 })), { fileName: "r.csv", kind: "rover", acceptGoodRows: true });
 });
@@ -69,6 +77,19 @@ const STATE_CHANGING: Record<string, Call> = {
     runsRoute.POST(new Request(`${ORIGIN}/api/v1/surveys/${surveyId}/days/${DAY}/runs`, { method: "POST", headers: h }), p({ surveyId, date: DAY })),
   "POST /api/v1/surveys/[surveyId]/logs": (h) =>
     logsRoute.POST(new Request(`${ORIGIN}/api/v1/surveys/${surveyId}/logs`, { method: "POST", headers: h, body: uploadBody() }), p({ surveyId })),
+  // Review (issue 6): each call starts from the review state it needs.
+  "POST /api/v1/surveys/[surveyId]/days/[date]/review/submit": async (h) => {
+    await getDb()("day_reviews").where({ survey_id: surveyId, day: DAY }).delete();
+    return submitRoute.POST(new Request(`${ORIGIN}/api/v1/surveys/${surveyId}/days/${DAY}/review/submit`, { method: "POST", headers: h }), p({ surveyId, date: DAY }));
+  },
+  "POST /api/v1/surveys/[surveyId]/days/[date]/review/decision": async (h) => {
+    const now = new Date().toISOString();
+    await getDb()("day_reviews").insert({ survey_id: surveyId, day: DAY, state: "awaiting_review", submitted_at: now, updated_at: now }).onConflict(["survey_id", "day"]).merge();
+    const headers = { ...h, ...(h.cookie ? { cookie: reviewerCookie } : {}), "content-type": "application/json" };
+    return decisionRoute.POST(new Request(`${ORIGIN}/api/v1/surveys/${surveyId}/days/${DAY}/review/decision`, { method: "POST", headers, body: JSON.stringify({ decision: "accept" }) }), p({ surveyId, date: DAY }));
+  },
+  "POST /api/v1/surveys/[surveyId]/kp": (h) =>
+    kpRoute.POST(new Request(`${ORIGIN}/api/v1/surveys/${surveyId}/kp`, { method: "POST", headers: { ...h, "content-type": "text/csv" }, body: `${DAY}T09:00Z,2` }), p({ surveyId })),
 };
 
 const stateChanging = Object.entries(ROUTE_ACCESS).filter(([, e]) => e.changesState).map(([k]) => k);
