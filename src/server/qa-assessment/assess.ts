@@ -139,11 +139,14 @@ export async function assessDay(db: Knex, surveyId: string, summary: Pick<DaySum
     metrics: JSON.stringify({ metrics, worst, note, revision: thresholds.revision }), kp_max: kpMax, computed_at: now,
   };
   await db.transaction(async (trx) => {
+    // Another request may have judged the same inputs meanwhile: then its row and history step stand.
+    const current = (await trx("day_assessments").where({ survey_id: surveyId, day }).first("fingerprint", "level")) as { fingerprint: string; level: VerdictLevel | null } | undefined;
+    if (current && current.fingerprint === fingerprint) return;
     await trx("day_assessments").insert(row).onConflict(["survey_id", "day"]).merge();
-    if (!stored || stored.level !== level) {
+    if (!current || current.level !== level) {
       await trx("day_review_events").insert({
         survey_id: surveyId, day, kind: "assessed", from_state: null, to_state: null, actor_user_id: null, comment: "",
-        details: JSON.stringify({ level, previousLevel: stored?.level ?? null, reasons: verdict.reasons.map((r) => r.text), baseLogId: log?.id ?? null, thresholdsRevision: thresholds.revision, kpMax }),
+        details: JSON.stringify({ level, previousLevel: current?.level ?? null, reasons: verdict.reasons.map((r) => r.text), baseLogId: log?.id ?? null, thresholdsRevision: thresholds.revision, kpMax }),
         created_at: now,
       });
     }

@@ -21,6 +21,7 @@ const { saveKpValues, listKp } = await import("@/src/server/kp/service");
 const { updateQaThresholds, getQaThresholds, listQaThresholdChanges } = await import("@/src/server/qa-assessment/thresholds-service");
 const { DEFAULT_QA_THRESHOLDS } = await import("@/src/server/qa-assessment/thresholds");
 const { ForbiddenError, ValidationError } = await import("@/src/server/errors");
+const { saveDayPairing } = await import("@/src/server/days/service");
 const { makeUser, makeSurvey, addMember, countRows } = await import("../../support/fixtures");
 
 type Actor = Awaited<ReturnType<typeof makeUser>>;
@@ -102,6 +103,24 @@ describe("assessment from the base record", () => {
     expect(r.assessment.metrics!.gapCount).toBe(1);
     expect(r.assessment.level).toBe("disturbed");
     expect(metrics(r)).toEqual(["disturbed:longestGapS"]);
+  });
+});
+
+describe("a base log landing or changing", () => {
+  it("is judged on the next read: a second, fuller base log with a step makes the day a storm; choosing the first base again makes it quiet", async () => {
+    const day = "2026-03-09";
+    const first = await importLogStream(crew, surveyId, streamOf(baseRecordCsv(day, { kind: "none" })), { fileName: "quiet.csv", kind: "base", baseSiteName: "Gate" });
+    expect((await getDayReview(reviewer, surveyId, day)).assessment.level).toBe("quiet");
+    // 1 s sampling: more readings, so the day's default pairing takes this log as its base.
+    await importLogStream(crew, surveyId, streamOf(baseRecordCsv(day, { kind: "step", atMin: 30, stepNt: 200 }, 1)), { fileName: "step.csv", kind: "base", baseSiteName: "Gate" });
+    const stormy = await getDayReview(reviewer, surveyId, day);
+    expect(stormy.assessment.level).toBe("storm");
+    expect(stormy.assessment.baseLogId).not.toBe(first.log.id);
+    await saveDayPairing(processor, surveyId, day, { method: "base", baseLogId: first.log.id });
+    const again = await getDayReview(reviewer, surveyId, day);
+    expect(again.assessment).toMatchObject({ level: "quiet", baseLogId: first.log.id });
+    const steps = (await listDayReviewHistory(crew, surveyId, day)).filter((e) => e.kind === "assessed").map((e) => [e.details.previousLevel, e.details.level]);
+    expect(steps).toEqual([[null, "quiet"], ["quiet", "storm"], ["storm", "quiet"]]);
   });
 });
 

@@ -20,12 +20,12 @@ export function quietNt(sinceStartS: number, i: number): number {
   return 49_310 + 15 * Math.sin((2 * Math.PI * sinceStartS) / (6 * 3600)) + 0.05 * Math.sin(i * 1.7);
 }
 
-export function baseRecordCsv(day: string, d: Disturbance): string {
+export function baseRecordCsv(day: string, d: Disturbance, intervalS = INTERVAL_S): string {
   const start = Date.parse(`${day}${START_UTC}`);
   const lines = ["time,field_nT"];
-  const n = (HOURS * 3600) / INTERVAL_S;
+  const n = (HOURS * 3600) / intervalS;
   for (let i = 0; i <= n; i++) {
-    const s = i * INTERVAL_S;
+    const s = i * intervalS;
     const min = s / 60;
     let f = quietNt(s, i);
     if (d.kind === "step" && min >= d.atMin) f += d.stepNt;
