@@ -196,7 +196,22 @@ describe("QA review of a storm day", () => {
     await screenshot(rp, "review-queue");
     await rp.goto(`/surveys/${surveyId}/calendar`);
     await rp.getByTestId(`calendar-${DAY.date}`).getByText("Re-survey needed").waitFor();
+    const cell = await rp.getByTestId(`calendar-${DAY.date}`).innerText();
+    expect(cell).toMatch(/QA: (storm|disturbed)/);
+    expect(cell, "worst metric with its limit").toMatch(/(range|chord|change|noise|gap|spikes|Kp) [\d\u202f.]+( nT| s)? \(limit [\d.]+/);
+    await screenshot(rp, "review-calendar");
     await rp.close();
+    const phone = await newContext(browser, baseUrl, 375);
+    await phone.addCookies(await reviewerContext.cookies());
+    const pp = await phone.newPage();
+    for (const url of [`/surveys/${surveyId}/calendar`, "/review", `/surveys/${surveyId}/days/${DAY.date}`]) {
+      await pp.goto(url);
+      await pp.locator("main").waitFor();
+      const overflow = await pp.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+      expect(overflow, `no sideways scrolling at 375 px on ${url}`).toBeLessThanOrEqual(1);
+    }
+    await screenshot(pp, "review-day-375");
+    await phone.close();
 
     const sctx = await newContext(browser, baseUrl);
     const sp = await sctx.newPage();
@@ -209,6 +224,22 @@ describe("QA review of a storm day", () => {
     expect(res?.status()).toBe(404);
     await sctx.close();
   }, 120_000);
+
+  it("the crew turns one kind of review mail off on the profile page, and it stays off", async () => {
+    const cctx = await newContext(browser, baseUrl);
+    const cp = await cctx.newPage();
+    await signIn(cp, crew.email, crew.password);
+    await cp.goto("/profile");
+    const accepted = cp.getByRole("checkbox", { name: /A day was accepted/ });
+    expect(await accepted.isChecked()).toBe(true);
+    await accepted.uncheck();
+    await cp.getByRole("button", { name: "Save mail choices" }).click();
+    await cp.getByText("Mail choices saved.").waitFor();
+    await cp.reload();
+    expect(await cp.getByRole("checkbox", { name: /A day was accepted/ }).isChecked()).toBe(false);
+    expect(await cp.getByRole("checkbox", { name: /sent back for re-survey/ }).isChecked()).toBe(true);
+    await cctx.close();
+  }, 60_000);
 
   it("the lead reads the audit trail with the review steps", async () => {
     const lctx = await newContext(browser, baseUrl);
