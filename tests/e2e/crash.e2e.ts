@@ -6,6 +6,7 @@
  * log and every log has its original), and the interrupted run reads as failed and can be rerun.
  */
 import fs from "node:fs";
+import http from "node:http";
 import os from "node:os";
 import path from "node:path";
 import Database from "better-sqlite3";
@@ -64,6 +65,30 @@ function upload(text: string, name: string, fields: Record<string, string>): Pro
   return fetch(`${app!.url}/api/v1/surveys/${surveyId}/logs`, { method: "POST", headers: { cookie, origin: app!.url }, body: fd });
 }
 
+/**
+ * The same upload on a connection of its own (no keep-alive reuse): fetch may pick a pooled socket
+ * the server is just closing (5 s idle timeout), and a large body sent into it was seen to hang.
+ */
+async function uploadOnFreshConnection(text: string, name: string, fields: Record<string, string>): Promise<number> {
+  const fd = new FormData();
+  for (const [k, v] of Object.entries(fields)) fd.append(k, v);
+  fd.append("file", new Blob([text], { type: "text/csv" }), name);
+  const encoded = new Response(fd);
+  const body = Buffer.from(await encoded.arrayBuffer());
+  return new Promise((resolve, reject) => {
+    const req = http.request(
+      `${app!.url}/api/v1/surveys/${surveyId}/logs`,
+      { method: "POST", agent: false, headers: { cookie, origin: app!.url, "content-type": encoded.headers.get("content-type")!, "content-length": body.length } },
+      (res) => {
+        res.resume();
+        res.on("end", () => resolve(res.statusCode ?? 0));
+      },
+    );
+    req.on("error", reject);
+    req.end(body);
+  });
+}
+
 const api = (p: string) => `${app!.url}/api/v1/surveys/${surveyId}/days/${DAY}${p}`;
 
 /** Database and upload folder facts, read directly (read-only) with no app running. */
@@ -104,7 +129,8 @@ beforeAll(async () => {
   db.close();
   await start();
   expect((await upload(baseText(), "crash-base.csv", { kind: "base", baseSiteName: "Crash gate", baseLatitudeDeg: "53.6172", baseLongitudeDeg: "-1.9324" })).status).toBe(201);
-  expect((await upload(roverText(150_000, "A"), "crash-rover.csv", { kind: "rover" })).status).toBe(201);
+  // Enough rover readings that a correction run lasts some seconds (it is killed in its first half).
+  expect((await upload(roverText(400_000, "A"), "crash-rover.csv", { kind: "rover" })).status).toBe(201);
 }, 240_000);
 
 afterAll(async () => {
@@ -117,14 +143,24 @@ describe.skipIf(!hasBuild)("SIGKILL of the server", () => {
     const before = inspect();
     const text = roverText(1_000_000, "K");
     const size = Buffer.byteLength(text);
-    const pending = upload(text, "killed-mid-import.csv", { kind: "rover" }).then((r) => r.status, (e: Error) => `no answer (${e.message})`);
+    let answered: string | number | null = null;
+    const pending = uploadOnFreshConnection(text, "killed-mid-import.csv", { kind: "rover" }).then(
+      (status) => String((answered = status)),
+      (e: Error) => `no answer (${e.message})`,
+    );
     // Wait until the whole upload is staged in tmp/ (the import then parses and writes readings), then a little more.
     const tmpDir = path.join(env.UPLOAD_DIR, "tmp");
-    const deadline = Date.now() + 60_000;
+    const deadline = Date.now() + 90_000;
+    let seen: number[] = [];
     for (;;) {
-      const parts = fs.existsSync(tmpDir) ? fs.readdirSync(tmpDir).map((f) => fs.statSync(path.join(tmpDir, f)).size) : [];
-      if (parts.some((s) => s >= size)) break;
-      if (Date.now() > deadline) throw new Error("the upload was never staged");
+      try {
+        seen = fs.existsSync(tmpDir) ? fs.readdirSync(tmpDir).map((f) => fs.statSync(path.join(tmpDir, f)).size) : [];
+      } catch {
+        seen = []; // a part file renamed between the listing and the stat
+      }
+      if (seen.some((s) => s >= size)) break;
+      if (answered !== null) throw new Error(`the upload was answered before it could be cut off: ${answered}`);
+      if (Date.now() > deadline) throw new Error(`the upload was never staged (${size} bytes; part files seen: ${seen.join(", ") || "none"})`);
       await new Promise((r) => setTimeout(r, 20));
     }
     await new Promise((r) => setTimeout(r, 700));
@@ -153,7 +189,8 @@ describe.skipIf(!hasBuild)("SIGKILL of the server", () => {
     for (;;) {
       const got = (await (await fetch(api(`/runs/${run.number}`), { headers: { cookie } })).json()) as { run: { status: string; progress: number } };
       seen = got.run.status;
-      if (seen === "running" && got.run.progress > 0) break;
+      // Early in the run, so the kill lands well before its end.
+      if (seen === "running" && got.run.progress > 0 && got.run.progress < 0.5) break;
       if (seen === "done" || seen === "failed" || Date.now() > deadline) throw new Error(`run reached ${seen} before it could be killed`);
       await new Promise((r) => setTimeout(r, 25));
     }
