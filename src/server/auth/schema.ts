@@ -2,6 +2,7 @@
  * Inputs of the sign-in and password forms (shared by pages, route handlers and services).
  * Imports nothing but zod, so client forms can use the same rules as the server.
  */
+import "@/src/lib/zod-jitless";
 import { z } from "zod";
 
 export const MIN_PASSWORD_LENGTH = 10;

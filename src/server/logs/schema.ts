@@ -2,6 +2,7 @@
  * Upload options of one log file (form fields or multipart fields of the API), zod-parsed.
  * No `server-only`: the upload page reuses the labels and limits.
  */
+import "@/src/lib/zod-jitless";
 import { z } from "zod";
 
 export const LOG_KINDS = ["base", "rover"] as const;

@@ -3,6 +3,7 @@
  * settings form, the service and the runs (no `server-only`: the settings page reuses the
  * labels and limits).
  */
+import "@/src/lib/zod-jitless";
 import { z } from "zod";
 
 export const DATUM_KINDS = ["value", "median", "mean", "reference"] as const;

@@ -2,6 +2,7 @@
  * Survey form input. No `server-only`: forms reuse the schema and its messages.
  * Derive per use (e.g. SurveyInputSchema.pick({ name: true })) rather than copying.
  */
+import "@/src/lib/zod-jitless";
 import { z } from "zod";
 
 export const SURVEY_CODE_PATTERN = /^[A-Z0-9][A-Z0-9-]{1,19}$/;
