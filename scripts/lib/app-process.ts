@@ -46,7 +46,9 @@ export async function startBuiltApp(opts: { port: number; env: Record<string, st
   const url = `http://localhost:${opts.port}`;
   const child = spawn(
     process.execPath,
-    [path.join(PROJECT_ROOT, "node_modules/next/dist/bin/next"), "start", "-p", String(opts.port), "-H", "127.0.0.1"],
+    // A long keep-alive: requests queue behind a large import on the one SQLite connection, and
+    // Node's 5 s default closed waiting sockets under load (ECONNRESET in bench/load.ts).
+    [path.join(PROJECT_ROOT, "node_modules/next/dist/bin/next"), "start", "-p", String(opts.port), "-H", "127.0.0.1", "--keepAliveTimeout", "120000"],
     {
       cwd: PROJECT_ROOT,
       stdio: opts.quiet ? ["ignore", "ignore", "inherit"] : "inherit",

@@ -29,3 +29,33 @@ export function fsyncDir(dir: string): void {
     /* some filesystems refuse fsync on a directory */
   }
 }
+
+/**
+ * Removes staged uploads (`tmp/*.part`) last written before `beforeMs`: at boot these can only be
+ * left over from a process that died mid-upload, since a staged file is either renamed into
+ * originals/ on commit or removed on failure. Returns how many were removed.
+ * (One app process per UPLOAD_DIR, as with SQLite; a shared folder would need a longer age.)
+ */
+export function sweepStagedUploads(uploadDir: string, beforeMs: number): number {
+  const dir = tempDir(uploadDir);
+  let removed = 0;
+  let names: string[];
+  try {
+    names = fs.readdirSync(dir);
+  } catch {
+    return 0; // no tmp folder yet
+  }
+  for (const name of names) {
+    if (!name.endsWith(".part")) continue;
+    const file = path.join(dir, name);
+    try {
+      if (fs.statSync(file).mtimeMs < beforeMs) {
+        fs.rmSync(file, { force: true });
+        removed++;
+      }
+    } catch {
+      /* gone meanwhile */
+    }
+  }
+  return removed;
+}
