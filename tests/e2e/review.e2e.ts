@@ -1,6 +1,6 @@
 /**
- * QA review in a real browser, on the demo survey BRM-26 and its storm day 2026-05-06 (demo logs
- * uploaded through the log API by the crew member in setup). BRM-26 has no reviewer in the demo,
+ * QA review in a real browser, on the demo survey BRM-26 and its storm day 2026-05-06 (the demo's
+ * generated logs, with their own noise seed, uploaded through the log API by the crew member in setup). BRM-26 has no reviewer in the demo,
  * so the lead invites one (Ines Calder) through the members page and the mailed link.
  *
  * A processor submits the day → the reviewer's mail is in the admin's fake mailbox → the reviewer
@@ -17,7 +17,10 @@ import { loadReferenceModel } from "../../src/lib/reference-model";
 import { launchBrowser, newContext, screenshot, signIn } from "./support/browser";
 
 const baseUrl = inject("baseUrl");
-const DAY = DEMO_DAYS.find((d) => d.surveyCode === "BRM-26" && d.date === "2026-05-06")!;
+// The demo storm day with its own noise seed: upload.e2e.ts uploads the demo's own 2026-05-06 base file
+// to the same survey, and identical bytes would be refused as a duplicate in whichever test runs second.
+const DEMO_DAY = DEMO_DAYS.find((d) => d.surveyCode === "BRM-26" && d.date === "2026-05-06")!;
+const DAY = { ...DEMO_DAY, seed: DEMO_DAY.seed + 5000 };
 const who = (p: string) => DEMO_SIGN_INS.find((u) => u.email.startsWith(`${p}@`))!;
 const [processor, crew, lead, admin, sdkReviewer] = ["processor", "crew", "lead", "admin", "reviewer"].map(who);
 const newReviewer = { email: `ines.calder.${Date.now()}@copperwren.example`, name: "Ines Calder", password: "a-long-reviewer-password" };
