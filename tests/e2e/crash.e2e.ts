@@ -170,10 +170,12 @@ describe.skipIf(!hasBuild)("SIGKILL of the server", () => {
     const after = inspect();
     expectConsistent(after);
     expect(after.logs.map((l) => l.original_name)).toEqual(before.logs.map((l) => l.original_name));
-    // The staged upload may be left in tmp/ (never in originals/): reported, see the closing note.
+    // The staged upload may be left in tmp/ by the kill (never in originals/) …
     console.info(`after the import crash: ${after.temp.length} staged file(s) left in tmp/`);
 
     await start();
+    // … and the restarted app sweeps it at boot.
+    expect(inspect().temp.filter((f) => f.endsWith(".part"))).toEqual([]);
     const listed = (await (await fetch(`${app!.url}/api/v1/surveys/${surveyId}/logs`, { headers: { cookie } })).json()) as { total: number };
     expect(listed.total).toBe(before.logs.length);
     // The same file uploads cleanly after the restart (its SHA-256 was never recorded).
