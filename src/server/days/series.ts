@@ -10,6 +10,8 @@ import "server-only";
 import { z } from "zod";
 import { prepareBaseSeries } from "@/src/core/correction";
 import { computeBaseQa, type QaWindow } from "@/src/core/qa";
+import { coreSettingsFor } from "../qa-assessment/thresholds";
+import { readQaThresholds } from "../qa-assessment/thresholds-service";
 import { median, mean } from "@/src/core/series";
 import { lttbIndices } from "@/src/core/series/lttb";
 import type { Actor } from "../auth/actor";
@@ -112,12 +114,14 @@ async function baseSeries(actor: Actor, surveyId: string, day: string, maxPoints
   if (!log) {
     return { kind: "base", day, log: null, t: [], fieldNt: [], totalCount: 0, datum: { valueNt: null, source: "no base log" }, windows: [], qa: null, notes: pairing.notes };
   }
-  const key = `${log.id}:${day}:${maxPoints}`;
+  // The shaded windows follow the survey's own QA thresholds, as the day's verdict does.
+  const thresholds = await readQaThresholds(db, surveyId);
+  const key = `${log.id}:${day}:${maxPoints}:t${thresholds.revision}`;
   let entry = qaCache.find((c) => c.key === key)?.value;
   if (!entry) {
     const readings = await loadLogReadings(db, log.id, day);
     const base = prepareBaseSeries(readings.timeMs, readings.fieldNt);
-    const qa = base.timeMs.length >= 5 ? computeBaseQa(base.timeMs, base.fieldNt) : null;
+    const qa = base.timeMs.length >= 5 ? computeBaseQa(base.timeMs, base.fieldNt, coreSettingsFor(thresholds.thresholds, null)) : null;
     const gapS = qa ? qa.gaps.thresholdS : Infinity;
     const thinned = thinWithBreaks(base.timeMs, [base.fieldNt], maxPoints, (i) => (base.timeMs[i] - base.timeMs[i - 1]) / 1000 > gapS, 2);
     entry = {
