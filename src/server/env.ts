@@ -5,6 +5,7 @@
  * No `server-only` import here: the database scripts (tsx) load this module outside Next.
  */
 import path from "node:path";
+import "@/src/lib/zod-jitless";
 import { z } from "zod";
 
 const EnvSchema = z.object({

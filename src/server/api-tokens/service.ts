@@ -4,6 +4,7 @@ import "server-only";
  * shown once, stored only as SHA-256. A token acts as its owner, with the owner's survey roles.
  */
 import { randomBytes, randomUUID } from "node:crypto";
+import "@/src/lib/zod-jitless";
 import { z } from "zod";
 import type { Actor } from "../auth/actor";
 import { actorFromRow, type UserRow } from "../auth/actor";

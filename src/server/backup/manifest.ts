@@ -9,6 +9,7 @@
  */
 import fs from "node:fs";
 import path from "node:path";
+import "@/src/lib/zod-jitless";
 import { z } from "zod";
 import { STORAGE_KEY_RE } from "../storage/layout";
 import { BackupError } from "./errors";

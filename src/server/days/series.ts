@@ -7,6 +7,7 @@ import "server-only";
  *   kind=corrected  a finished run: per line raw/corrected/residual against time and distance;
  *                   without `line`, the plan view (positions coloured by residual) and a histogram
  */
+import "@/src/lib/zod-jitless";
 import { z } from "zod";
 import { prepareBaseSeries } from "@/src/core/correction";
 import { computeBaseQa, type QaWindow } from "@/src/core/qa";

@@ -6,6 +6,7 @@ import "server-only";
  * day; with no base log, the looping method from rover readings at the reoccupation station.
  */
 import type { Knex } from "knex";
+import "@/src/lib/zod-jitless";
 import { z } from "zod";
 import type { Actor } from "../auth/actor";
 import { assertSurveyPermission } from "../authz/permissions";

@@ -7,6 +7,7 @@ import "server-only";
  */
 import { randomUUID } from "node:crypto";
 import type { Knex } from "knex";
+import "@/src/lib/zod-jitless";
 import { z } from "zod";
 import type { Actor } from "../auth/actor";
 import { hashPassword, verifyPassword } from "../auth/password";

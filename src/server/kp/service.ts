@@ -6,6 +6,7 @@ import "server-only";
  * intervals that overlap the day's logs.
  */
 import type { Knex } from "knex";
+import "@/src/lib/zod-jitless";
 import { z } from "zod";
 import type { Actor } from "../auth/actor";
 import { recordAudit } from "../audit/record";

@@ -6,6 +6,7 @@ import "server-only";
  */
 import type Database from "better-sqlite3";
 import type { Knex } from "knex";
+import "@/src/lib/zod-jitless";
 import { z } from "zod";
 import type { Actor } from "../auth/actor";
 import { assertSurveyPermission } from "../authz/permissions";

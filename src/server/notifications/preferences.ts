@@ -1,5 +1,6 @@
 import "server-only";
 /** Each user's opt-outs from review mail; only the user changes their own. */
+import "@/src/lib/zod-jitless";
 import { z } from "zod";
 import type { Actor } from "../auth/actor";
 import { getDb } from "../db/client";

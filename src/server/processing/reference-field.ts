@@ -4,6 +4,7 @@ import "server-only";
  * model is public; no survey data is involved). Inputs zod-parsed; a date outside the model's
  * validity or a missing coefficient table is a clear 400.
  */
+import "@/src/lib/zod-jitless";
 import { z } from "zod";
 import { OutsideModelValidityError, synthesizeField, type FieldVector } from "@/src/core/reference-field";
 import { parseTimestamp } from "@/src/core/time";

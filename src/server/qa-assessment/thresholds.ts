@@ -14,6 +14,7 @@
  *   within one minute is storm behaviour — the 100 nT itself is common practice;
  * - everything else is common practice, marked so beside it.
  */
+import "@/src/lib/zod-jitless";
 import { z } from "zod";
 import { D4_FORMULA, DEFAULT_QA_SETTINGS, type BaseQaSettings, type VerdictThresholds } from "@/src/core/qa";
 

@@ -7,6 +7,7 @@ import "server-only";
  * mail goes out after the step is saved (see ../notifications/review-mail.ts).
  */
 import type { Knex } from "knex";
+import "@/src/lib/zod-jitless";
 import { z } from "zod";
 import type { Actor } from "../auth/actor";
 import { recordAudit } from "../audit/record";

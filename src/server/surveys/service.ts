@@ -5,6 +5,7 @@ import "server-only";
  */
 import { randomUUID } from "node:crypto";
 import type { Knex } from "knex";
+import "@/src/lib/zod-jitless";
 import { z } from "zod";
 import type { Actor } from "../auth/actor";
 import { recordAudit } from "../audit/record";
