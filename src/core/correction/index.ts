@@ -9,6 +9,7 @@ export {
   type InterpolationMethod,
 } from "./base-interpolator";
 export { resolveNumericDatum, type DatumChoice } from "./datum";
+export { mergeFallbackBase, type MergedBase } from "./fallback-base";
 export { loopBaseFromReadings, loopBaseFromStation, type LoopBase } from "./loop-base";
 export type { ReferenceFieldEvaluator, BasePosition } from "./reference-evaluator";
 export {

@@ -12,6 +12,7 @@ import {
   createReferenceEvaluator,
   duplicateTimeMarks,
   loopBaseFromStation,
+  mergeFallbackBase,
   prepareBaseSeries,
   type BasePosition,
   type BaseSeries,
@@ -23,7 +24,6 @@ import { median } from "@/src/core/series";
 import { loadReferenceModel } from "@/src/lib/reference-model";
 import { concatReadings, loadLogReadings } from "../days/readings-store";
 import { nowIso } from "../time";
-import { mergeFallbackBase } from "./fallback-base";
 import { codeStrings, COLUMN_DTYPES, encodeColumn, type RunColumns, type RunDictionaries } from "./run-columns";
 import type { RunParameters } from "./parameters";
 

@@ -4,10 +4,11 @@
  * shifting them by the median simultaneous difference first − second (the two sites sit at
  * different field levels; the difference is what a datum tie between bases removes: Milsom, Field
  * Geophysics, ch. 3, sub-bases). With no simultaneous readings the shift is the difference of the
- * two medians. Pure: built on the core's interpolator and statistics.
+ * two medians.
  */
-import { createBaseInterpolator, prepareBaseSeries, type BaseSeries } from "@/src/core/correction";
-import { median } from "@/src/core/series";
+import { createBaseInterpolator } from "./base-interpolator";
+import { prepareBaseSeries, type BaseSeries } from "./base-series";
+import { median } from "../series";
 
 export interface MergedBase {
   base: BaseSeries;

@@ -1,6 +1,6 @@
 /** Second base filling the first's gaps, on series whose answer is known by construction. */
 import { describe, expect, it } from "vitest";
-import { mergeFallbackBase } from "@/src/server/runs/fallback-base";
+import { mergeFallbackBase } from "@/src/core/correction/fallback-base";
 
 const series = (fromS: number, toS: number, stepS: number, f: (s: number) => number, skip?: (s: number) => boolean) => {
   const t: number[] = [];
