@@ -4,6 +4,7 @@
  */
 import fs from "node:fs";
 import path from "node:path";
+import { seededRandom as random } from "../src/lib/seeded-random";
 
 export const BASE_ROWS = 86_400;
 export const ROVER_ROWS = 1_000_000;
@@ -12,18 +13,6 @@ const ROVER_START_MS = DAY_MS + 5 * 3_600_000;
 const ROVER_STEP_MS = 50;
 const SITE_LAT_DEG = 52.1234;
 const SITE_LON_DEG = -3.4567;
-
-/** Deterministic pseudo-random numbers (mulberry32, common practice) so every run writes the same files. */
-function random(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4_294_967_296;
-  };
-}
 
 function diurnalNt(timeMs: number): number {
   const hours = (timeMs - DAY_MS) / 3_600_000;

@@ -7,27 +7,11 @@ import { TZDate } from "@date-fns/tz";
 import { format } from "date-fns";
 import { synthesizeField, type FieldModel } from "../../src/core/reference-field";
 import type { DemoDay, DemoLogFormat, DemoSite, DemoSource } from "./scenario";
+import { seededRandom as random, gaussian } from "../../src/lib/seeded-random";
 
 const METRES_PER_DEGREE_LAT = 111_320;
 const DIPOLE_CONSTANT_NT_M3_PER_AM2 = 100; // μ0/4π = 1e-7 T·m/A = 100 nT·m³/(A·m²)
 const GPS_MINUS_UTC_MS_2026 = 18_000; // IERS Bulletin C: TAI−UTC 37 s since 2017-01-01; GPS = TAI − 19 s
-
-/** Deterministic pseudo-random numbers (mulberry32), so the demo files are reproducible. */
-function random(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-function gaussian(rand: () => number): number {
-  const u = Math.max(rand(), 1e-12);
-  return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * rand());
-}
 
 function localToUtcMs(date: string, time: string, timeZone: string): number {
   const [y, m, d] = date.split("-").map(Number);
