@@ -118,6 +118,17 @@ async function listChangesIn(db: Knex | Knex.Transaction, surveyId: string, revi
   }));
 }
 
+/** Names of the base station sites the survey's base logs were recorded at (choices for the main base site). */
+export async function listBaseSiteNames(actor: Actor, surveyId: string): Promise<string[]> {
+  await assertSurveyPermission(actor, surveyId, "days.read");
+  const rows = (await getDb()("field_logs")
+    .where({ survey_id: surveyId, kind: "base" })
+    .whereNotNull("base_site_name")
+    .distinct("base_site_name")
+    .orderBy("base_site_name")) as { base_site_name: string }[];
+  return rows.map((r) => r.base_site_name);
+}
+
 /** Change history, newest first. */
 export async function listProcessingSettingChanges(actor: Actor, surveyId: string): Promise<SettingChange[]> {
   await assertSurveyPermission(actor, surveyId, "days.read");

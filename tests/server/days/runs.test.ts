@@ -15,7 +15,8 @@ const testDb = setupTestDatabase();
 process.env.UPLOAD_DIR = path.join(testDb.dir, "uploads");
 
 const { importLogStream } = await import("@/src/server/logs/import-service");
-const { updateProcessingSettings, getProcessingSettings, listProcessingSettingChanges } = await import("@/src/server/processing/service");
+const { updateProcessingSettings, getProcessingSettings, listProcessingSettingChanges, listBaseSiteNames } = await import("@/src/server/processing/service");
+const { NotFoundError } = await import("@/src/server/errors");
 const { DEFAULT_PROCESSING_SETTINGS } = await import("@/src/server/processing/schema");
 const { listDays, getDayPairing } = await import("@/src/server/days/service");
 const runs = await import("@/src/server/runs/service");
@@ -64,6 +65,12 @@ describe("processing settings", () => {
     const history = await listProcessingSettingChanges(processor, surveyId);
     expect(history).toHaveLength(4);
     expect(history[0].revision).toBe(2);
+  });
+
+  it("list the base sites of the survey's base logs, to members only", async () => {
+    expect(await listBaseSiteNames(processor, surveyId)).toEqual(["Gatehouse"]);
+    const outsider = await makeUser();
+    await expect(listBaseSiteNames(outsider, surveyId)).rejects.toBeInstanceOf(NotFoundError);
   });
 
   it("refuse a fixed datum without its value, and a reference datum without a model, with field errors", async () => {

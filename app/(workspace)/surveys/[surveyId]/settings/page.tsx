@@ -2,9 +2,8 @@ import type { Metadata } from "next";
 import { guardedRead } from "@/app/_lib/guarded-read";
 import { requireActor } from "@/src/server/auth/session";
 import { roleAllows } from "@/src/server/authz/permission-table";
-import { getDb } from "@/src/server/db/client";
 import { SETTING_LABELS } from "@/src/server/processing/schema";
-import { getProcessingSettings, listProcessingSettingChanges } from "@/src/server/processing/service";
+import { getProcessingSettings, listBaseSiteNames, listProcessingSettingChanges } from "@/src/server/processing/service";
 import { getSurvey } from "@/src/server/surveys/service";
 import { loadReferenceModel } from "@/src/lib/reference-model";
 import { Refusal } from "@/src/ui/refusal";
@@ -37,7 +36,7 @@ export default async function SettingsPage({ params }: Props) {
   const record = await guardedRead(getProcessingSettings(actor, surveyId));
   if (!record.ok) return <Refusal message={record.message} />;
   const history = await listProcessingSettingChanges(actor, surveyId);
-  const sites = (await getDb()("field_logs").where({ survey_id: surveyId, kind: "base" }).whereNotNull("base_site_name").distinct("base_site_name")) as { base_site_name: string }[];
+  const sites = await listBaseSiteNames(actor, surveyId);
   const readOnly = !roleAllows(survey.value.myRole, "processing.update") || Boolean(survey.value.archivedAt);
   return (
     <div className="grid gap-5 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
@@ -47,7 +46,7 @@ export default async function SettingsPage({ params }: Props) {
           How this survey's days are corrected. {readOnly ? "Your role can read them; a processor or the lead changes them." : "Every change is recorded."}
           {record.value.updatedAt ? ` Last change by ${record.value.updatedBy ?? "unknown"} at ${record.value.updatedAt.slice(0, 16).replace("T", " ")} UTC.` : " Defaults in use."}
         </p>
-        <SettingsForm surveyId={surveyId} settings={record.value.settings} baseSites={sites.map((s) => s.base_site_name)} readOnly={readOnly} igrfAvailable={igrfLoaded()} />
+        <SettingsForm surveyId={surveyId} settings={record.value.settings} baseSites={sites} readOnly={readOnly} igrfAvailable={igrfLoaded()} />
       </section>
       <section className="rounded-lg border border-ink-100 bg-white p-5 shadow-sm">
         <h2 className="mb-3 text-lg font-semibold text-ink-900">Change history</h2>
