@@ -11,7 +11,7 @@ const SECURITY_HEADERS = [
 
 const nextConfig: NextConfig = {
   // Native and optional-driver packages stay outside the server bundle.
-  serverExternalPackages: ["knex", "better-sqlite3", "@node-rs/argon2", "smtp-server", "nodemailer"],
+  serverExternalPackages: ["knex", "better-sqlite3", "pg", "pg-copy-streams", "@node-rs/argon2", "smtp-server", "nodemailer"],
   poweredByHeader: false,
   async headers() {
     return [{ source: "/:path*", headers: SECURITY_HEADERS }];

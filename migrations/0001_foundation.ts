@@ -22,7 +22,7 @@ export async function up(knex: Knex): Promise<void> {
 
   await knex.schema.createTable("sessions", (t) => {
     t.text("id").primary();
-    t.integer("expires_at").notNullable(); // seconds since epoch (lucia adapter-sqlite)
+    t.bigInteger("expires_at").notNullable(); // seconds since epoch (lucia adapter-sqlite)
     t.text("user_id").notNullable().references("id").inTable("users").onDelete("CASCADE");
     t.index(["user_id"]);
   });

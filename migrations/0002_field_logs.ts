@@ -26,11 +26,11 @@ export async function up(knex: Knex): Promise<void> {
     t.text("sensor_type").notNullable().checkIn(SENSOR_TYPES);
     t.text("operator").notNullable().defaultTo("");
     t.text("base_site_name").nullable();
-    t.float("base_latitude_deg").nullable();
-    t.float("base_longitude_deg").nullable();
-    t.float("base_height_m").nullable();
+    t.double("base_latitude_deg").nullable();
+    t.double("base_longitude_deg").nullable();
+    t.double("base_height_m").nullable();
     t.text("time_basis").notNullable().checkIn(TIME_BASES);
-    t.float("clock_offset_s").notNullable().defaultTo(0);
+    t.double("clock_offset_s").notNullable().defaultTo(0);
     t.text("delimiter").notNullable();
     t.text("header").notNullable(); // JSON array of header names as written
     t.text("mapping").notNullable(); // JSON object role → header name used
@@ -39,8 +39,8 @@ export async function up(knex: Knex): Promise<void> {
     t.integer("reading_count").notNullable(); // readings stored
     t.integer("rejected_count").notNullable();
     t.integer("issue_count").notNullable();
-    t.integer("first_time_ms").nullable();
-    t.integer("last_time_ms").nullable();
+    t.bigInteger("first_time_ms").nullable();
+    t.bigInteger("last_time_ms").nullable();
     t.text("warnings").notNullable().defaultTo("[]"); // JSON array of strings
     t.text("uploaded_by").nullable().references("id").inTable("users").onDelete("SET NULL");
     t.text("uploaded_at").notNullable();
@@ -52,11 +52,11 @@ export async function up(knex: Knex): Promise<void> {
   // Readings: integer log id and no extra columns, so a million rows stay small and fast.
   await knex.schema.createTable("log_readings", (t) => {
     t.integer("log_id").notNullable().references("id").inTable("field_logs").onDelete("CASCADE");
-    t.integer("time_ms").notNullable();
-    t.float("field_nt").notNullable();
-    t.float("latitude_deg").nullable();
-    t.float("longitude_deg").nullable();
-    t.float("height_m").nullable();
+    t.bigInteger("time_ms").notNullable();
+    t.double("field_nt").notNullable();
+    t.double("latitude_deg").nullable();
+    t.double("longitude_deg").nullable();
+    t.double("height_m").nullable();
     t.text("line").nullable();
     t.text("station").nullable();
     t.integer("source_line").notNullable();
@@ -82,8 +82,8 @@ export async function up(knex: Knex): Promise<void> {
     t.text("survey_id").notNullable().references("id").inTable("surveys").onDelete("CASCADE");
     t.text("day").notNullable(); // yyyy-mm-dd
     t.integer("reading_count").notNullable();
-    t.integer("first_time_ms").notNullable();
-    t.integer("last_time_ms").notNullable();
+    t.bigInteger("first_time_ms").notNullable();
+    t.bigInteger("last_time_ms").notNullable();
     t.primary(["log_id", "day"]);
     t.index(["survey_id", "day"]);
   });

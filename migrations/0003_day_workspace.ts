@@ -52,7 +52,7 @@ export async function up(knex: Knex): Promise<void> {
     t.text("day").notNullable();
     t.integer("number").notNullable(); // 1, 2, 3 … per survey day
     t.text("status").notNullable().checkIn(RUN_STATUSES);
-    t.float("progress").notNullable().defaultTo(0); // 0 … 1
+    t.double("progress").notNullable().defaultTo(0); // 0 … 1
     t.text("parameters").notNullable(); // JSON: every option the core correction was given
     t.text("model_name").nullable(); // e.g. IGRF-14; null for no reference model
     t.text("model_version").nullable();

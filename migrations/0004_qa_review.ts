@@ -34,7 +34,7 @@ export async function up(knex: Knex): Promise<void> {
   await knex.schema.createTable("kp_values", (t) => {
     t.text("survey_id").notNullable().references("id").inTable("surveys").onDelete("CASCADE");
     t.text("interval_start").notNullable(); // ISO UTC, on a 3-hour boundary
-    t.float("kp").notNullable(); // 0 … 9
+    t.double("kp").notNullable(); // 0 … 9
     t.text("source").notNullable().checkIn(["entered", "csv"]);
     t.text("entered_by").nullable().references("id").inTable("users").onDelete("SET NULL");
     t.text("entered_at").notNullable();
@@ -50,7 +50,7 @@ export async function up(knex: Knex): Promise<void> {
     t.text("level").nullable().checkIn(["quiet", "disturbed", "storm"]); // null: nothing to judge
     t.text("reasons").notNullable().defaultTo("[]"); // JSON array of { level, metric, value, limit, text }
     t.text("metrics").nullable(); // JSON object of the day's metrics
-    t.float("kp_max").nullable();
+    t.double("kp_max").nullable();
     t.text("computed_at").notNullable();
     t.primary(["survey_id", "day"]);
   });

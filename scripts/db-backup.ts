@@ -45,6 +45,10 @@ async function main(argv: string[]): Promise<number> {
     return 2;
   }
   const env = getEnv();
+  if (env.database.engine === "postgres" && !values.database) {
+    console.error("db-backup: this backs up the SQLite database; DATABASE_URL points at PostgreSQL: use pg_dump / pg_restore there (README, Running at scale)");
+    return 2;
+  }
   const databaseFile = values.database ? path.resolve(values.database) : env.databaseFile;
   const uploadDir = values["upload-dir"] ? path.resolve(values["upload-dir"]) : env.uploadDir;
 

@@ -1,11 +1,12 @@
 /**
  * Database chores: `tsx scripts/db.ts migrate|seed [--replace]|reset|status`.
  * `seed` leaves an already seeded demo as it is; `--replace` rebuilds the demo rows.
- * Uses the same migration source and database file (DATABASE_FILE) as the app.
+ * Uses the same migration source and database as the app (DATABASE_URL for PostgreSQL, else
+ * the SQLite file DATABASE_FILE).
  */
-import fs from "node:fs";
 import { getEnv } from "../src/server/env";
 import { createDb } from "../src/server/db/create-db";
+import { describeDatabase, resetDatabase } from "../src/server/db/engine";
 import { migrateToLatest, migrationLevel } from "../src/server/db/migration-source";
 import { seed } from "../seeds/01_demo";
 
@@ -17,12 +18,13 @@ async function main(command: string | undefined): Promise<void> {
     process.exitCode = 2;
     return;
   }
-  const file = getEnv().databaseFile;
+  const config = getEnv().database;
+  const where = describeDatabase(config);
   if (command === "reset") {
-    for (const suffix of ["", "-wal", "-shm"]) fs.rmSync(file + suffix, { force: true });
-    console.log(`deleted ${file}`);
+    await resetDatabase(config);
+    console.log(config.engine === "sqlite" ? `deleted ${where}` : `dropped every table of ${where}`);
   }
-  const knex = createDb(file);
+  const knex = createDb(config);
   try {
     if (command === "migrate" || command === "reset") {
       const applied = await migrateToLatest(knex);
@@ -40,7 +42,7 @@ async function main(command: string | undefined): Promise<void> {
       );
     }
     const level = await migrationLevel(knex);
-    console.log(`database ${file}: migration ${level.current ?? "none"} of ${level.latest}, ${level.pending} pending`);
+    console.log(`database ${where}: migration ${level.current ?? "none"} of ${level.latest}, ${level.pending} pending`);
   } finally {
     await knex.destroy();
   }

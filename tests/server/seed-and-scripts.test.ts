@@ -4,9 +4,10 @@ import fs from "node:fs";
 import path from "node:path";
 import { promisify } from "node:util";
 import { describe, expect, it } from "vitest";
-import { setupTestDatabase } from "../support/test-db";
+import { setupTestDatabase, TEST_ON_POSTGRES } from "../support/test-db";
 
-const { dir } = setupTestDatabase();
+const testDb = setupTestDatabase();
+const { dir } = testDb;
 
 const { getDb } = await import("@/src/server/db/client");
 const { seed } = await import("@/seeds/01_demo");
@@ -59,7 +60,7 @@ describe("scripts/db.ts", () => {
 
   it("reset deletes, migrates and seeds, and says so; a bad command is refused", async () => {
     const file = path.join(dir, "script.sqlite");
-    const env = { ...process.env, DATABASE_FILE: file };
+    const env = { ...process.env, DATABASE_FILE: file, DATABASE_URL: "" }; // the SQLite file, whichever engine the suite runs on
     fs.writeFileSync(file, "not a database");
     const { stdout } = await run(tsx, ["scripts/db.ts", "reset"], { env });
     expect(stdout).toContain(`deleted ${file}`);
@@ -71,5 +72,14 @@ describe("scripts/db.ts", () => {
     const reseed = await run(tsx, ["scripts/db.ts", "seed"], { env });
     expect(reseed.stdout).toContain("demo data already present: left as it is");
     await expect(run(tsx, ["scripts/db.ts", "explode"], { env })).rejects.toMatchObject({ code: 2 });
+  }, 60_000);
+
+  it.runIf(TEST_ON_POSTGRES)("on PostgreSQL, reset drops every table of DATABASE_URL's schema, then migrates and seeds", async () => {
+    const env = { ...process.env, DATABASE_URL: testDb.url! };
+    const { stdout } = await run(tsx, ["scripts/db.ts", "reset"], { env });
+    expect(stdout).toMatch(/dropped every table of postgres:\/\//);
+    expect(stdout).toContain("applied migrations: 0001_foundation");
+    expect(stdout).toMatch(/seeded demo data: 5 users, 3 surveys, 7 memberships/);
+    expect(Number((await getDb()("surveys").count({ n: "*" }).first())?.n)).toBe(3);
   }, 60_000);
 });

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { setupTestDatabase } from "../support/test-db";
+import { INSERTION_ORDER, setupTestDatabase } from "../support/test-db";
 
 setupTestDatabase();
 
@@ -82,7 +82,7 @@ describe("create, edit, archive", () => {
     expect((await surveys.listSurveys(lead, { includeArchived: true })).map((s) => s.id)).toContain(surveyId);
     await expect(surveys.updateSurvey(lead, surveyId, input({ code: "EDIT-1" }))).rejects.toBeInstanceOf(ConflictError);
     expect((await surveys.restoreSurvey(lead, surveyId)).archivedAt).toBeNull();
-    const actions = (await getDb()("audit_events").where({ survey_id: surveyId }).orderByRaw("rowid")).map((a) => a.action);
+    const actions = (await getDb()("audit_events").where({ survey_id: surveyId }).orderByRaw(INSERTION_ORDER)).map((a) => a.action);
     expect(actions).toEqual(["survey.update", "survey.archive", "survey.restore"]);
   });
 });
@@ -107,7 +107,7 @@ describe("members", () => {
     await surveys.removeMember(crew, surveyId, lead.userId);
     expect((await surveys.listMembers(crew, surveyId)).map((m) => m.userId)).toEqual([crew.userId]);
     await expect(surveys.getSurvey(lead, surveyId)).rejects.toBeInstanceOf(NotFoundError);
-    const actions = (await getDb()("audit_events").where({ survey_id: surveyId }).orderByRaw("rowid")).map((a) => a.action);
+    const actions = (await getDb()("audit_events").where({ survey_id: surveyId }).orderByRaw(INSERTION_ORDER)).map((a) => a.action);
     expect(actions).toEqual(["member.role_change", "member.role_change", "member.remove"]);
   });
 });

@@ -1,22 +1,52 @@
 /**
- * Per-test-file database: a fresh SQLite file in a temp folder, migrations run.
+ * Per-test-file database, migrations run: a fresh SQLite file in a temp folder, or, when
+ * FIELDTIDE_TEST_PG_URL names a PostgreSQL server (an admin URL such as
+ * postgres://postgres@127.0.0.1:55432/postgres, `npm run test:pg`), a fresh database on it,
+ * dropped afterwards.
  * Call setupTestDatabase() at the top of a test file, BEFORE anything reads the environment.
  */
+import { randomUUID } from "node:crypto";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
+import pg from "pg";
 import { afterAll, beforeAll } from "vitest";
 
-export type TestDatabase = { dir: string; file: string };
+export type TestDatabase = { dir: string; file: string; engine: "sqlite" | "postgres"; url: string | null };
+
+/** The integration suite is running against PostgreSQL (`npm run test:pg`). */
+export const TEST_ON_POSTGRES = Boolean(process.env.FIELDTIDE_TEST_PG_URL);
+
+async function onAdmin(adminUrl: string, sql: string): Promise<void> {
+  const client = new pg.Client({ connectionString: adminUrl });
+  await client.connect();
+  try {
+    await client.query(sql);
+  } finally {
+    await client.end();
+  }
+}
 
 export function setupTestDatabase(extraEnv: Record<string, string> = {}): TestDatabase {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), "fieldtide-test-"));
   const file = path.join(dir, "test.sqlite");
+  const adminUrl = process.env.FIELDTIDE_TEST_PG_URL;
+  const dbName = `fieldtide_test_${randomUUID().replace(/-/g, "").slice(0, 16)}`;
+  let url: string | null = null;
+  if (adminUrl) {
+    const u = new URL(adminUrl);
+    u.pathname = `/${dbName}`;
+    url = u.toString();
+    process.env.DATABASE_URL = url;
+  } else {
+    delete process.env.DATABASE_URL;
+  }
   process.env.DATABASE_FILE = file;
   process.env.APP_URL ??= "http://localhost:3000";
   for (const [k, v] of Object.entries(extraEnv)) process.env[k] = v;
 
   beforeAll(async () => {
+    if (adminUrl) await onAdmin(adminUrl, `CREATE DATABASE ${dbName}`);
     const { getDb } = await import("@/src/server/db/client");
     const { migrateToLatest } = await import("@/src/server/db/migration-source");
     await migrateToLatest(getDb());
@@ -24,7 +54,15 @@ export function setupTestDatabase(extraEnv: Record<string, string> = {}): TestDa
   afterAll(async () => {
     const { closeDb } = await import("@/src/server/db/client");
     await closeDb();
+    if (adminUrl) await onAdmin(adminUrl, `DROP DATABASE IF EXISTS ${dbName} WITH (FORCE)`);
     fs.rmSync(dir, { recursive: true, force: true });
   });
-  return { dir, file };
+  return { dir, file, engine: adminUrl ? "postgres" : "sqlite", url };
 }
+
+/**
+ * ORDER BY expression for "in the order the rows were inserted", for tests reading back a small
+ * table that only ever had inserts: SQLite's rowid; on PostgreSQL the tuple position (ctid),
+ * which follows insertion order in a fresh table with no updates or deletes.
+ */
+export const INSERTION_ORDER = TEST_ON_POSTGRES ? "ctid" : "rowid";

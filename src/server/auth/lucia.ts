@@ -1,6 +1,7 @@
 import "server-only";
 /**
- * The only module that touches lucia. Lucia's BetterSqlite3Adapter runs on Knex's own pooled
+ * The only module that touches lucia. On PostgreSQL lucia stores sessions through Knex's pool
+ * (./knex-session-adapter.ts). On SQLite, lucia's BetterSqlite3Adapter runs on Knex's own pooled
  * better-sqlite3 connection (one connection, pragmas set by the pool's afterCreate). Each lucia
  * call holds that connection exclusively for its duration (withLucia), so it queues behind an
  * open Knex transaction instead of interleaving with it or waiting on a lock from a second
@@ -10,8 +11,11 @@ import "server-only";
 import type { Database } from "better-sqlite3";
 import { BetterSqlite3Adapter } from "@lucia-auth/adapter-sqlite";
 import { Lucia, TimeSpan, type Adapter } from "lucia";
+import type { Knex } from "knex";
 import { getDb } from "../db/client";
+import { engineOf } from "../db/engine";
 import { getEnv } from "../env";
+import { KnexSessionAdapter } from "./knex-session-adapter";
 
 export const SESSION_COOKIE_NAME = "fieldtide_session";
 const TABLES = { user: "users", session: "sessions" };
@@ -49,9 +53,19 @@ type PoolClient = { acquireConnection(): Promise<Database>; releaseConnection(co
 
 const byConnection = new WeakMap<Database, AppLucia>();
 
-/** Runs `fn` with lucia on Knex's connection, held for the duration of the call. */
+let postgresLucia: { db: Knex; lucia: AppLucia } | null = null;
+
+/**
+ * Runs `fn` with lucia. SQLite: on Knex's connection, held for the duration of the call.
+ * PostgreSQL: through Knex's pool like every other query (KnexSessionAdapter).
+ */
 export async function withLucia<T>(fn: (lucia: AppLucia) => Promise<T>): Promise<T> {
-  const client = getDb().client as unknown as PoolClient;
+  const db = getDb();
+  if (engineOf(db) === "postgres") {
+    if (postgresLucia?.db !== db) postgresLucia = { db, lucia: buildLucia(new KnexSessionAdapter(getDb, TABLES)) };
+    return fn(postgresLucia.lucia);
+  }
+  const client = db.client as unknown as PoolClient;
   const conn = await client.acquireConnection();
   try {
     let lucia = byConnection.get(conn);

@@ -1,13 +1,13 @@
 import "server-only";
 /**
- * Readings of stored logs as columns (the shape the core works on), read straight from SQLite
- * through the one Knex connection with a raw prepared statement (no row objects: 200 000 readings
- * in ~100 ms). Logs never change after import, so decoded columns are kept in a small LRU cache
- * keyed by log id and day.
+ * Readings of stored logs as columns (the shape the core works on), read through the engine
+ * adapter's bulk path (arrays, no row objects: 200 000 readings in ~100 ms on SQLite). Logs
+ * never change after import, so decoded columns are kept in a small LRU cache keyed by log id
+ * and day.
  */
-import type Database from "better-sqlite3";
 import type { Knex } from "knex";
 import type { LogReadings } from "@/src/core/logs";
+import { selectReadingRows, type ReadingRow } from "../db/engine";
 
 export const MS_PER_DAY = 86_400_000;
 
@@ -20,24 +20,6 @@ type Cached = { key: string; readings: LogReadings };
 const CACHE_SIZE = 8;
 const globalForCache = globalThis as unknown as { __fieldtideReadingsCache?: Cached[] };
 const cache = (globalForCache.__fieldtideReadingsCache ??= []);
-
-/** Runs `fn` with the raw better-sqlite3 connection behind Knex's pool (one connection). */
-export async function withRawConnection<T>(db: Knex, fn: (conn: Database.Database) => T): Promise<T> {
-  const client = (db as unknown as { client: { acquireConnection(): Promise<Database.Database>; releaseConnection(c: Database.Database): Promise<void> } }).client;
-  const conn = await client.acquireConnection();
-  try {
-    return fn(conn);
-  } finally {
-    await client.releaseConnection(conn);
-  }
-}
-
-const SELECT_ALL =
-  "SELECT time_ms, field_nt, latitude_deg, longitude_deg, height_m, line, station, source_line FROM log_readings WHERE log_id = ? ORDER BY rowid";
-const SELECT_DAY =
-  "SELECT time_ms, field_nt, latitude_deg, longitude_deg, height_m, line, station, source_line FROM log_readings WHERE log_id = ? AND local_day = ? ORDER BY rowid";
-
-type Row = [number, number, number | null, number | null, number | null, string | null, string | null, number];
 
 /**
  * All readings of a log in file order, or only those of one survey-local day. Missing values are
@@ -52,17 +34,14 @@ export async function loadLogReadings(db: Knex, logId: number, day?: string): Pr
     cache.push(entry);
     return entry.readings;
   }
-  const rows = await withRawConnection(db, (conn) => {
-    const stmt = conn.prepare(day ? SELECT_DAY : SELECT_ALL).raw(true);
-    return (day ? stmt.all(logId, localDayNumber(day)) : stmt.all(logId)) as Row[];
-  });
+  const rows = await selectReadingRows(db, logId, day ? localDayNumber(day) : undefined);
   const readings = columnsFromRows(rows);
   cache.push({ key, readings });
   if (cache.length > CACHE_SIZE) cache.shift();
   return readings;
 }
 
-function columnsFromRows(rows: Row[]): LogReadings {
+function columnsFromRows(rows: ReadingRow[]): LogReadings {
   const n = rows.length;
   const timeMs = new Float64Array(n);
   const fieldNt = new Float64Array(n);

@@ -15,7 +15,7 @@ import { NotFoundError, ValidationError, parseInput } from "../errors";
 import { readSettings } from "../processing/service";
 import type { ProcessingSettings } from "../processing/schema";
 import { nowIso } from "../time";
-import { localDayNumber, withRawConnection } from "./readings-store";
+import { localDayNumber } from "./readings-store";
 
 export const DAY_PATTERN = /^\d{4}-\d{2}-\d{2}$/;
 
@@ -190,12 +190,13 @@ async function mainBaseSite(db: Knex | Knex.Transaction, surveyId: string, setti
 async function countLoopOccupations(db: Knex, roverLogs: DayLog[], day: string, station: string): Promise<number> {
   if (roverLogs.length === 0) return 0;
   const ids = roverLogs.map((l) => l.id);
-  return withRawConnection(db, (conn) => {
-    const stmt = conn.prepare(
-      `SELECT COUNT(*) AS n FROM log_readings WHERE log_id IN (${ids.map(() => "?").join(",")}) AND local_day = ? AND lower(trim(station)) = ?`,
-    );
-    return (stmt.get(...ids, localDayNumber(day), station.trim().toLowerCase()) as { n: number }).n;
-  });
+  const row = await db("log_readings")
+    .whereIn("log_id", ids)
+    .where("local_day", localDayNumber(day))
+    .whereRaw("lower(trim(station)) = ?", [station.trim().toLowerCase()])
+    .count({ n: "*" })
+    .first();
+  return Number(row?.n ?? 0);
 }
 
 const byReadingsThenAge = (a: DayLog, b: DayLog) => b.readingCount - a.readingCount || a.id - b.id;

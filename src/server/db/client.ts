@@ -1,20 +1,22 @@
 /**
- * The one Knex instance of the process, on DATABASE_FILE. Cached on globalThis so that
- * Next's hot reload in development does not open a new connection per reload.
+ * The one Knex instance of the process, on the configured database (DATABASE_URL for
+ * PostgreSQL, else the SQLite file DATABASE_FILE). Cached on globalThis so that Next's hot
+ * reload in development does not open a new connection per reload.
  */
 import type { Knex } from "knex";
 import { getEnv } from "../env";
 import { createDb } from "./create-db";
 
-type Cached = { file: string; knex: Knex };
+type Cached = { target: string; knex: Knex };
 const globalForDb = globalThis as unknown as { __fieldtideDb?: Cached };
 
 export function getDb(): Knex {
-  const file = getEnv().databaseFile;
+  const config = getEnv().database;
+  const target = config.engine === "postgres" ? config.url : config.file;
   const cached = globalForDb.__fieldtideDb;
-  if (cached && cached.file === file) return cached.knex;
-  const knex = createDb(file);
-  globalForDb.__fieldtideDb = { file, knex };
+  if (cached && cached.target === target) return cached.knex;
+  const knex = createDb(config);
+  globalForDb.__fieldtideDb = { target, knex };
   return knex;
 }
 

@@ -5,14 +5,13 @@ import "server-only";
  *
  * Order: permission → options (zod) → the staged original (already hashed on disk) is checked
  * (empty, binary) → ONE transaction: duplicate check, header and profile, the file streamed
- * through the core's log parser with each parsed chunk inserted by a prepared statement, bad
+ * through the core's log parser with each parsed chunk handed to the engine's bulk path, bad
  * rows refused (or kept aside when the user accepts the good rows), survey days, overlap
  * warnings, audit → the original is renamed into place as the last step before commit.
  * Any failure rolls the transaction back and removes the file: the log lands whole or not at all.
  */
 import { randomUUID } from "node:crypto";
 import type { Readable } from "node:stream";
-import type Database from "better-sqlite3";
 import type { Knex } from "knex";
 import { createLogStreamParser, delimiterName, LogFormatError, type Delimiter, type LogReadings, type LogParseSummary } from "@/src/core/logs";
 import { createZoneOffsetLookup } from "@/src/core/time";
@@ -20,6 +19,7 @@ import { recordAudit } from "../audit/record";
 import type { Actor } from "../auth/actor";
 import { assertSurveyPermission } from "../authz/permissions";
 import { getDb } from "../db/client";
+import { openReadingsWriter, serializeOn } from "../db/engine";
 import { parseInput } from "../errors";
 import { commitStaged, discardStaged, newStorageKey, openStaged, removeStored, stageUpload, type StagedFile } from "../storage/original-files";
 import { nowIso } from "../time";
@@ -159,6 +159,7 @@ async function importInTransaction(
   storageKey: string,
 ): Promise<LogImportResult> {
   await assertSurveyPermission(actor, surveyId, "logs.upload", trx);
+  await serializeOn(trx, `log-sha256:${surveyId}:${staged.sha256}`); // the same file sent twice at once: the second sees the first
   const survey = (await trx<SurveyRow>("surveys").where({ id: surveyId }).first())!;
   if (survey.archived_at) {
     throw new LogImportRefusedError("This survey is archived: restore it before adding logs.", { reason: "archived", fileName: options.fileName });
@@ -191,7 +192,8 @@ async function importInTransaction(
   }
 
   const now = nowIso();
-  const [logId] = (await trx("field_logs").insert({
+  const [{ id: logId }] = (await trx("field_logs")
+    .insert({
     survey_id: surveyId,
     kind: options.kind,
     original_name: options.fileName,
@@ -217,7 +219,8 @@ async function importInTransaction(
     issue_count: 0,
     uploaded_by: actor.userId,
     uploaded_at: now,
-  })) as number[];
+  })
+    .returning("id")) as { id: number }[];
 
   const parsed = await parseIntoTable(trx, logId, staged, options, survey.time_zone, { mapping, delimiter }, controls);
   const { summary, days } = parsed;
@@ -338,13 +341,6 @@ async function importInTransaction(
 
 type DayAggregate = { count: number; first: number; last: number };
 
-const READING_COLUMNS = 10;
-/** Rows per multi-row INSERT: fewer calls into SQLite per reading (640 parameters, far below SQLite's limit). */
-const ROWS_PER_INSERT = 64;
-const insertSql = (rows: number) =>
-  "INSERT INTO log_readings (log_id, time_ms, field_nt, latitude_deg, longitude_deg, height_m, line, station, source_line, local_day) VALUES " +
-  Array.from({ length: rows }, () => "(?, ?, ?, ?, ?, ?, ?, ?, ?, ?)").join(", ");
-
 const num = (v: number) => (v === v ? v : null);
 
 /** Streams the staged file through the parser; each parsed chunk goes straight into log_readings. */
@@ -357,12 +353,8 @@ async function parseIntoTable(
   format: { mapping: Record<string, string> | undefined; delimiter: Delimiter | undefined },
   controls: ImportControls,
 ): Promise<{ summary: LogParseSummary; days: Map<number, DayAggregate>; stored: number; firstMs: number; lastMs: number }> {
-  // The transaction's own connection (Knex holds one better-sqlite3 connection): fast prepared inserts, same transaction.
-  const conn = (await (trx as unknown as { client: { acquireConnection(): Promise<Database.Database> } }).client.acquireConnection()) as Database.Database;
-  const insertOne = conn.prepare(insertSql(1));
-  const insertMany = conn.prepare(insertSql(ROWS_PER_INSERT));
-  const params: (number | string | null)[] = new Array(READING_COLUMNS * ROWS_PER_INSERT);
-  let queued = 0;
+  // The engine's bulk path inside this transaction (prepared inserts on SQLite, COPY on PostgreSQL).
+  const writer = await openReadingsWriter(trx, logId);
   const offsetAt = createZoneOffsetLookup(surveyTimeZone);
   const days = new Map<number, DayAggregate>();
   let stored = 0;
@@ -376,21 +368,17 @@ async function parseIntoTable(
     for (let i = 0; i < b.count; i++) {
       const t = timeMs[i];
       const day = Math.floor((t + offsetAt(t)) / MS_PER_DAY);
-      const at = queued * READING_COLUMNS;
-      params[at] = logId;
-      params[at + 1] = t;
-      params[at + 2] = fieldNt[i];
-      params[at + 3] = latDeg ? num(latDeg[i]) : null;
-      params[at + 4] = lonDeg ? num(lonDeg[i]) : null;
-      params[at + 5] = heightM ? num(heightM[i]) : null;
-      params[at + 6] = line ? line[i] || null : null;
-      params[at + 7] = station ? station[i] || null : null;
-      params[at + 8] = sourceLine[i];
-      params[at + 9] = day;
-      if (++queued === ROWS_PER_INSERT) {
-        insertMany.run(params);
-        queued = 0;
-      }
+      writer.add(
+        t,
+        fieldNt[i],
+        latDeg ? num(latDeg[i]) : null,
+        lonDeg ? num(lonDeg[i]) : null,
+        heightM ? num(heightM[i]) : null,
+        line ? line[i] || null : null,
+        station ? station[i] || null : null,
+        sourceLine[i],
+        day,
+      );
       if (day !== lastDay) {
         lastDay = day;
         lastAgg = days.get(day) ?? null;
@@ -406,9 +394,6 @@ async function parseIntoTable(
       if (t < firstMs) firstMs = t;
       if (t > lastMs) lastMs = t;
     }
-    // rows left over go in one by one, so the table holds exactly this batch when the callback returns
-    for (let k = 0; k < queued; k++) insertOne.run(params.slice(k * READING_COLUMNS, (k + 1) * READING_COLUMNS));
-    queued = 0;
     stored += b.count;
   };
 
@@ -425,6 +410,7 @@ async function parseIntoTable(
       { onBatch },
     );
   } catch (err) {
+    await writer.abort(err as Error);
     if (err instanceof RangeError) throw unreadable(options.fileName, err.message);
     throw err;
   }
@@ -436,6 +422,7 @@ async function parseIntoTable(
     for await (const chunk of openStaged(staged)) {
       controls.signal?.throwIfAborted();
       parser.push(decoder ? decoder.decode(chunk as Buffer, { stream: true }) : (chunk as Buffer));
+      await writer.flush();
       readSoFar = stored;
       if (controls.onProgress && readSoFar >= nextProgress) {
         controls.onProgress(readSoFar);
@@ -445,8 +432,10 @@ async function parseIntoTable(
     if (decoder) parser.push(decoder.decode());
     controls.signal?.throwIfAborted();
     const summary = parser.end();
+    await writer.finish();
     return { summary, days, stored, firstMs, lastMs };
   } catch (err) {
+    await writer.abort(err as Error);
     if (err instanceof LogFormatError) throw unreadable(options.fileName, explainFormatError(err.message, headHint(staged)));
     throw err;
   }

@@ -4,13 +4,13 @@ import "server-only";
  * problems; its field-against-time series thinned for a chart; its problems as rows for a CSV;
  * its original file. Every reader checks "logs.read" on the survey first.
  */
-import type Database from "better-sqlite3";
 import type { Knex } from "knex";
 import "@/src/lib/zod-jitless";
 import { z } from "zod";
 import type { Actor } from "../auth/actor";
 import { assertSurveyPermission } from "../authz/permissions";
 import { getDb } from "../db/client";
+import { selectTimeField } from "../db/engine";
 import { NotFoundError, parseInput } from "../errors";
 import { openStored, storedExists } from "../storage/original-files";
 import type { ProblemRow } from "./errors";
@@ -270,20 +270,7 @@ export async function getLogFieldSeries(actor: Actor, surveyId: string, logId: u
   const n = row.reading_count;
   const times = new Float64Array(n);
   const fields = new Float64Array(n);
-  let k = 0;
-  const client = (db as unknown as { client: { acquireConnection(): Promise<Database.Database>; releaseConnection(c: unknown): Promise<void> } }).client;
-  const conn = await client.acquireConnection();
-  try {
-    const stmt = conn.prepare("SELECT time_ms, field_nt FROM log_readings WHERE log_id = ? ORDER BY time_ms").raw(true);
-    for (const r of stmt.iterate(row.id) as IterableIterator<[number, number]>) {
-      if (k >= n) break;
-      times[k] = r[0];
-      fields[k] = r[1];
-      k++;
-    }
-  } finally {
-    await client.releaseConnection(conn);
-  }
+  const k = await selectTimeField(db, row.id, times, fields);
   const xs = times.subarray(0, k);
   const ys = fields.subarray(0, k);
   const keep = lttbIndices(xs, ys, maxPoints);

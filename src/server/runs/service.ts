@@ -12,6 +12,7 @@ import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
 import { assertSurveyPermission } from "../authz/permissions";
 import { getDb } from "../db/client";
+import { serializeOn } from "../db/engine";
 import { ConflictError, NotFoundError, ValidationError } from "../errors";
 import { getDay, parseDay, resolvePairing } from "../days/service";
 import { readSettings } from "../processing/service";
@@ -133,16 +134,17 @@ export async function startRun(actor: Actor, surveyId: string, dayInput: unknown
 
   const runId = await db.transaction(async (trx) => {
     await assertSurveyPermission(actor, surveyId, "runs.create", trx);
+    await serializeOn(trx, `run-number:${surveyId}:${day}`); // two requests never take the same number
     const active = await trx("correction_runs").where({ survey_id: surveyId, day }).whereIn("status", ["queued", "running"]).first("number");
     if (active) throw new ConflictError(`Run ${active.number} of this day is still in progress: wait for it to finish.`);
     const last = await trx("correction_runs").where({ survey_id: surveyId, day }).max({ n: "number" }).first();
     const number = (Number(last?.n) || 0) + 1;
     const now = nowIso();
-    const [id] = (await trx("correction_runs").insert({
+    const [{ id }] = (await trx("correction_runs").insert({
       survey_id: surveyId, day, number, status: "queued", progress: 0, parameters: JSON.stringify(parameters),
       model_name: model?.name ?? null, model_version: model?.version ?? null, inputs: JSON.stringify(inputs),
       process_id: PROCESS_ID, created_by: actor.userId, created_at: now,
-    })) as number[];
+    }).returning("id")) as { id: number }[];
     await trx("audit_events").insert({
       id: crypto.randomUUID(), survey_id: surveyId, actor_user_id: actor.userId, action: "run.create",
       details: JSON.stringify({ day, number, runId: id }), created_at: now,

@@ -7,6 +7,7 @@ import { randomUUID } from "node:crypto";
 import type { Knex } from "knex";
 import "@/src/lib/zod-jitless";
 import { z } from "zod";
+import { isUniqueViolation } from "../db/engine";
 import type { Actor } from "../auth/actor";
 import { recordAudit } from "../audit/record";
 import { assertAdmin, assertSurveyPermission, SURVEY_ROLES, type SurveyRole } from "../authz/permissions";
@@ -69,10 +70,6 @@ function inputColumns(input: SurveyInput) {
     time_zone: input.timeZone,
     notes: input.notes,
   };
-}
-
-function isUniqueViolation(err: unknown): boolean {
-  return err instanceof Error && "code" in err && (err as { code?: string }).code === "SQLITE_CONSTRAINT_UNIQUE";
 }
 
 async function assertCodeFree(db: Knex | Knex.Transaction, code: string, exceptId?: string): Promise<void> {

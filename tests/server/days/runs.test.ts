@@ -173,10 +173,10 @@ describe("correction runs", () => {
   });
 
   it("a run left running by a stopped server reads as failed and the day can be run again", async () => {
-    const [id] = (await getDb()("correction_runs").insert({
+    const [{ id }] = (await getDb()("correction_runs").insert({
       survey_id: surveyId, day: DAY, number: 3, status: "running", progress: 0.4, parameters: "{}", inputs: "[]",
       process_id: "an-earlier-server-process", created_at: new Date().toISOString(),
-    })) as number[];
+    }).returning("id")) as { id: number }[];
     const list = await runs.listRuns(processor, surveyId, DAY);
     const interrupted = list.find((r) => r.id === id)!;
     expect(interrupted.status).toBe("failed");

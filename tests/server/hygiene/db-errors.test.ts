@@ -5,7 +5,7 @@
  */
 import path from "node:path";
 import { beforeAll, describe, expect, it, vi } from "vitest";
-import { setupTestDatabase } from "../../support/test-db";
+import { setupTestDatabase, TEST_ON_POSTGRES } from "../../support/test-db";
 
 const testDb = setupTestDatabase({ APP_URL: "http://localhost:3000" });
 process.env.UPLOAD_DIR = path.join(testDb.dir, "uploads");
@@ -51,21 +51,23 @@ describe("a broken database behind the routes", () => {
     const list = () => logsRoute.GET(new Request(`${ORIGIN}/api/v1/surveys/${surveyId}/logs`, { headers: auth() }), p({ surveyId }));
     expect((await list()).status).toBe(200);
 
-    await getDb().raw("PRAGMA foreign_keys = OFF");
-    await getDb().schema.dropTable("log_days");
+    // tables go with whatever references them: no foreign-key checks on SQLite, CASCADE on PostgreSQL
+    const dropTable = (name: string) => (TEST_ON_POSTGRES ? getDb().raw("DROP TABLE ?? CASCADE", [name]) : getDb().schema.dropTable(name));
+    if (!TEST_ON_POSTGRES) await getDb().raw("PRAGMA foreign_keys = OFF");
+    await dropTable("log_days");
     await expectPlain500(await daysRoute.GET(new Request(`${ORIGIN}/api/v1/surveys/${surveyId}/days`, { headers: auth() }), p({ surveyId })));
 
-    await getDb().schema.dropTable("log_readings");
+    await dropTable("log_readings");
     await expectPlain500(await seriesRoute.GET(new Request(`${ORIGIN}/api/v1/surveys/${surveyId}/days/${DAY}/series?kind=base`, { headers: auth() }), p({ surveyId, date: DAY })));
 
-    await getDb().schema.dropTable("correction_run_columns");
-    await getDb().schema.dropTable("correction_runs");
+    await dropTable("correction_run_columns");
+    await dropTable("correction_runs");
     await expectPlain500(await runsRoute.GET(new Request(`${ORIGIN}/api/v1/surveys/${surveyId}/days/${DAY}/runs`, { headers: auth() }), p({ surveyId, date: DAY })));
 
-    await getDb().schema.dropTable("field_logs");
+    await dropTable("field_logs");
     await expectPlain500(await list());
 
-    await getDb().schema.dropTable("sign_in_failures");
+    await dropTable("sign_in_failures");
     await expectPlain500(
       await signInRoute.POST(new Request(`${ORIGIN}/api/v1/auth/sign-in`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ email: user.email, password: user.password }) })),
     );
