@@ -8,14 +8,13 @@ import type { DatabaseConfig } from "../../env";
 import { createDb } from "../create-db";
 import { dropPostgresTables, isPostgresUniqueViolation, openPostgresReadingsWriter, postgresTransactionLock, resetPostgresSequences, selectPostgresReadingRows, selectPostgresTimeField } from "./postgres";
 import { isSqliteUniqueViolation, openSqliteReadingsWriter, selectSqliteReadingRows, selectSqliteTimeField } from "./sqlite";
-import type { EngineName, ReadingRow, ReadingsWriter } from "./types";
+import { engineOf } from "./engine-of";
+import type { ReadingRow, ReadingsWriter } from "./types";
+
+export { engineOf } from "./engine-of";
 
 export type { EngineName, ReadingRow, ReadingsWriter } from "./types";
 
-export function engineOf(db: Knex): EngineName {
-  const client = (db.client as { config: { client: unknown } }).config.client;
-  return client === "pg" ? "postgres" : "sqlite";
-}
 
 /** Bulk insert of one log's readings inside `trx`: prepared multi-row inserts on SQLite, COPY on PostgreSQL. */
 export function openReadingsWriter(trx: Knex.Transaction, logId: number): Promise<ReadingsWriter> {

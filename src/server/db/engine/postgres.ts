@@ -130,11 +130,14 @@ export function isPostgresUniqueViolation(err: unknown): boolean {
 
 /**
  * After rows were copied in with their ids (the SQLite → PostgreSQL migration), moves each
- * serial column's sequence past the largest id so new rows do not collide.
+ * table's serial `id` sequence past the largest id so new rows do not collide. Tables whose id
+ * is not serial (text ids) are left alone.
  */
 export async function resetPostgresSequences(db: Knex, tables: readonly string[]): Promise<void> {
   for (const table of tables) {
-    await db.raw(`SELECT setval(pg_get_serial_sequence(?, 'id'), COALESCE((SELECT MAX(id) FROM ??), 0) + 1, false)`, [table, table]);
+    const r = await db.raw("SELECT pg_get_serial_sequence(?, 'id') AS seq", [table]);
+    const seq = (r.rows as { seq: string | null }[])[0]?.seq;
+    if (seq) await db.raw("SELECT setval(?, COALESCE((SELECT MAX(id) FROM ??), 0) + 1, false)", [seq, table]);
   }
 }
 
@@ -149,4 +152,31 @@ export async function dropPostgresTables(db: Knex): Promise<number> {
   const names = (r.rows as { tablename: string }[]).map((t) => t.tablename);
   for (const name of names) await db.raw("DROP TABLE IF EXISTS ?? CASCADE", [name]);
   return names.length;
+}
+
+/** One value in COPY's text format: NULL as \\N, bytea in hex form, text escaped. */
+function copyCell(value: unknown): string {
+  if (value === null || value === undefined) return "\\N";
+  if (typeof value === "number" || typeof value === "bigint") return String(value);
+  if (Buffer.isBuffer(value)) return "\\\\x" + value.toString("hex");
+  return copyText(String(value));
+}
+
+/** Inserts rows (values in `columns` order) into `table` with one COPY on the transaction's connection. */
+export async function copyRowsIntoPostgres(trx: Knex.Transaction, table: string, columns: string[], rows: unknown[][]): Promise<void> {
+  if (rows.length === 0) return;
+  const conn = await (trx.client as unknown as KnexPool).acquireConnection();
+  const quote = (name: string) => `"${name.replace(/"/g, '""')}"`;
+  const stream = conn.query(copyFrom(`COPY ${quote(table)} (${columns.map(quote).join(", ")}) FROM STDIN`));
+  const done = Promise.race([once(stream, "finish"), once(stream, "error").then(([err]) => Promise.reject(err))]);
+  let text = "";
+  for (const row of rows) {
+    text += row.map(copyCell).join("\t") + "\n";
+    if (text.length >= COPY_CHUNK_CHARS) {
+      if (!stream.write(text)) await Promise.race([once(stream, "drain"), done]);
+      text = "";
+    }
+  }
+  stream.end(text);
+  await done;
 }
