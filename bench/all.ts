@@ -4,6 +4,7 @@
  *   1. core    — bench/run.ts: papaparse baseline vs `correct` end to end (issue 3 targets)
  *   2. import  — bench/import-bench.ts: 1 M-row rover import vs papaparse + plain insert (issue 4)
  *   3. series  — bench/series-bench.ts: day series and a correction run on the built app (issue 5)
+ *   4. engines — bench/engines-bench.ts: 1 M-row import and day series on SQLite and PostgreSQL side by side (issue 8)
  * A benchmark that misses its target exits non-zero; the others still run, and the summary says which.
  * `npm run bench -- core import` runs a subset. The series bench builds the app first unless
  * BENCH_SKIP_BUILD=1 and a build exists.
@@ -17,6 +18,7 @@ const SUITES: Record<string, string[][]> = {
   core: [["--import", "tsx", "bench/run.ts"]],
   import: [["--conditions=react-server", "--import", "tsx", "bench/import-bench.ts"]],
   series: [["node_modules/next/dist/bin/next", "build"], ["--import", "tsx", "bench/series-bench.ts"]],
+  engines: [["--conditions=react-server", "--import", "tsx", "bench/engines-bench.ts"]],
 };
 
 const wanted = process.argv.slice(2).length ? process.argv.slice(2) : Object.keys(SUITES);
