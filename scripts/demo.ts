@@ -3,6 +3,7 @@
  * SMTP server on loopback; prints the URL and the demo sign-ins, runs until Ctrl-C.
  */
 import path from "node:path";
+import { describeDatabase } from "../src/server/db/engine";
 import { PROJECT_ROOT, runStep, startBuiltApp } from "./lib/app-process";
 import { DEMO_SIGN_INS } from "../seeds/demo-users";
 
@@ -17,7 +18,7 @@ const env = {
 };
 
 async function main() {
-  console.log(`\n[demo] database ${databaseFile}`);
+  console.log(`\n[demo] database ${process.env.DATABASE_URL ? describeDatabase({ engine: "postgres", url: process.env.DATABASE_URL }) : databaseFile}`);
   await runStep("npx", ["tsx", "scripts/db.ts", "migrate"], env);
   await runStep("npx", ["tsx", "scripts/db.ts", "seed"], env);
   console.log("[demo] demo field logs (generated, then imported as the survey's crew; files already there are skipped)");
