@@ -6,7 +6,10 @@
  * is in the database afterwards (readings counted per log, against the upload answers).
  * Prints throughput and p50/p95/p99 latency per kind of request.
  *
- *   npx tsx bench/load.ts [--seconds 60] [--crews 20] [--viewers 20] [--rows 50000]
+ *   npx tsx bench/load.ts [--seconds 60] [--crews 20] [--viewers 20] [--rows 50000] [--engine sqlite|postgres]
+ *
+ * --engine postgres runs the app on a fresh PostgreSQL database (on the server named by
+ * FIELDTIDE_BENCH_PG_URL, an admin URL, else a throwaway one from scripts/pg-local.sh).
  *
  * Needs `next build` done. Loopback only; exits non-zero when the load was not held.
  */
@@ -15,8 +18,11 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { parseArgs } from "node:util";
-import Database from "better-sqlite3";
+import { spawnSync } from "node:child_process";
+import type { Knex } from "knex";
+import pg from "pg";
 import { freePort, runStep, startBuiltApp } from "../scripts/lib/app-process";
+import { createDb } from "../src/server/db/create-db";
 
 const { values: args } = parseArgs({
   options: {
@@ -24,8 +30,11 @@ const { values: args } = parseArgs({
     crews: { type: "string", default: "20" },
     viewers: { type: "string", default: "20" },
     rows: { type: "string", default: "50000" },
+    engine: { type: "string", default: "sqlite" },
   },
 });
+const ENGINE = args.engine;
+if (ENGINE !== "sqlite" && ENGINE !== "postgres") throw new Error("--engine must be sqlite or postgres");
 const SECONDS = Number(args.seconds);
 const CREWS = Number(args.crews);
 const VIEWERS = Number(args.viewers);
@@ -36,7 +45,7 @@ for (const [k, v] of Object.entries({ SECONDS, CREWS, VIEWERS, ROWS })) {
 const MAX_SECONDS = 600; // bounded, whatever the flag says
 const DAY = "2026-05-04";
 const DAY_START_MS = Date.parse("2026-05-04T01:00:00Z");
-const BUSY = /SQLITE_BUSY|database is locked|SQLITE_LOCKED/i;
+const BUSY = /SQLITE_BUSY|database is locked|SQLITE_LOCKED|deadlock detected|could not serialize/i;
 
 type Sample = { kind: string; ms: number; ok: boolean };
 const samples: Sample[] = [];
@@ -85,26 +94,55 @@ async function timed(kind: string, fn: () => Promise<Response>): Promise<{ res: 
 }
 
 /** Test people straight into the fresh database before the app starts: crews and viewers, each with an API token. */
-function addPeople(dbFile: string): { surveyId: string; crewTokens: string[]; viewerTokens: string[] } {
-  const db = new Database(dbFile);
-  const survey = db.prepare("select id from surveys where code = 'BRM-26'").get() as { id: string };
+async function addPeople(db: Knex): Promise<{ surveyId: string; crewTokens: string[]; viewerTokens: string[] }> {
+  const survey = (await db("surveys").where({ code: "BRM-26" }).first("id")) as { id: string };
   const now = new Date().toISOString();
-  const person = db.prepare("insert into users (id, email, name, password_hash, is_admin, created_at, updated_at) values (?, ?, ?, ?, 0, ?, ?)");
-  const member = db.prepare("insert into survey_members (survey_id, user_id, role, joined_at) values (?, ?, ?, ?)");
-  const token = db.prepare("insert into api_tokens (id, user_id, name, token_hash, token_prefix, created_at) values (?, ?, ?, ?, ?, ?)");
-  const make = (role: string, i: number): string => {
+  const make = async (role: string, i: number): Promise<string> => {
     const id = randomUUID();
     // No password: these people sign in only with their token ("!" is no argon2 hash).
-    person.run(id, `load-${role}-${i}@bench.invalid`, `Load ${role} ${i}`, "!", now, now);
-    member.run(survey.id, id, role, now);
+    await db("users").insert({ id, email: `load-${role}-${i}@bench.invalid`, name: `Load ${role} ${i}`, password_hash: "!", is_admin: 0, created_at: now, updated_at: now });
+    await db("survey_members").insert({ survey_id: survey.id, user_id: id, role, joined_at: now });
     const plain = "ftk_" + randomBytes(32).toString("base64url");
-    token.run(randomUUID(), id, "load bench", createHash("sha256").update(plain).digest("hex"), plain.slice(0, 10), now);
+    await db("api_tokens").insert({ id: randomUUID(), user_id: id, name: "load bench", token_hash: createHash("sha256").update(plain).digest("hex"), token_prefix: plain.slice(0, 10), created_at: now });
     return plain;
   };
-  const crewTokens = Array.from({ length: CREWS }, (_, i) => make("crew", i));
-  const viewerTokens = Array.from({ length: VIEWERS }, (_, i) => make("reviewer", i));
-  db.close();
+  const crewTokens: string[] = [];
+  for (let i = 0; i < CREWS; i++) crewTokens.push(await make("crew", i));
+  const viewerTokens: string[] = [];
+  for (let i = 0; i < VIEWERS; i++) viewerTokens.push(await make("reviewer", i));
   return { surveyId: survey.id, crewTokens, viewerTokens };
+}
+
+/** A fresh PostgreSQL database for this run; returns its URL and how to drop it. */
+async function freshPostgres(): Promise<{ url: string; drop: () => Promise<void> }> {
+  let admin = process.env.FIELDTIDE_BENCH_PG_URL;
+  if (!admin) {
+    const r = spawnSync("bash", ["scripts/pg-local.sh", "start"], { encoding: "utf8" });
+    if (r.status !== 0) throw new Error(`could not start PostgreSQL: ${r.stderr.trim()} (or set FIELDTIDE_BENCH_PG_URL)`);
+    admin = r.stdout.trim().split("\n").pop()!;
+  }
+  const name = `fieldtide_load_${randomUUID().replace(/-/g, "").slice(0, 12)}`;
+  const onAdmin = async (sql: string) => {
+    const c = new pg.Client({ connectionString: admin });
+    await c.connect();
+    try {
+      await c.query(sql);
+    } finally {
+      await c.end();
+    }
+  };
+  await onAdmin(`CREATE DATABASE ${name}`);
+  const u = new URL(admin);
+  u.pathname = `/${name}`;
+  return { url: u.toString(), drop: () => onAdmin(`DROP DATABASE IF EXISTS ${name} WITH (FORCE)`) };
+}
+
+/** Readings stored per log, and SQLite's integrity_check ("n/a" on PostgreSQL). */
+async function storedReadings(db: Knex): Promise<{ stored: Map<number, number>; integrity: string }> {
+  const rows = (await db("log_readings").select("log_id").count({ n: "*" }).groupBy("log_id")) as { log_id: number; n: number }[];
+  const stored = new Map(rows.map((r) => [Number(r.log_id), Number(r.n)]));
+  const integrity = ENGINE === "sqlite" ? ((await db.raw("pragma integrity_check")) as { integrity_check: string }[])[0].integrity_check : "n/a (PostgreSQL)";
+  return { stored, integrity };
 }
 
 function pct(sorted: number[], p: number): number {
@@ -115,10 +153,14 @@ async function main(): Promise<void> {
   const seconds = Math.min(SECONDS, MAX_SECONDS);
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), "fieldtide-load-"));
   const port = await freePort();
-  const env = { DATABASE_FILE: path.join(dir, "load.sqlite"), UPLOAD_DIR: path.join(dir, "uploads"), APP_URL: `http://localhost:${port}` };
+  const postgres = ENGINE === "postgres" ? await freshPostgres() : null;
+  const env = { DATABASE_FILE: path.join(dir, "load.sqlite"), DATABASE_URL: postgres?.url ?? "", UPLOAD_DIR: path.join(dir, "uploads"), APP_URL: `http://localhost:${port}` };
+  const dbConfig = postgres ? { engine: "postgres" as const, url: postgres.url } : { engine: "sqlite" as const, file: env.DATABASE_FILE };
   await runStep("npx", ["tsx", "scripts/db.ts", "migrate"], env);
   await runStep("npx", ["tsx", "scripts/db.ts", "seed"], env);
-  const { surveyId, crewTokens, viewerTokens } = addPeople(env.DATABASE_FILE);
+  const setupDb = createDb(dbConfig);
+  const { surveyId, crewTokens, viewerTokens } = await addPeople(setupDb);
+  await setupDb.destroy();
   const app = await startBuiltApp({ port, env, quiet: true });
   const url = `http://127.0.0.1:${port}`;
   const api = `${url}/api/v1/surveys/${surveyId}`;
@@ -140,7 +182,7 @@ async function main(): Promise<void> {
   try {
     await upload(crewTokens[0], "base", baseLog(), "load-base.csv", { baseSiteName: "Load gate", baseLatitudeDeg: "53.6172", baseLongitudeDeg: "-1.9324" });
     const deadline = Date.now() + seconds * 1000;
-    process.stdout.write(`load: ${CREWS} crews × ${ROWS}-row uploads, ${VIEWERS} viewers polling, ${seconds} s, ${url}\n`);
+    process.stdout.write(`load (${ENGINE}): ${CREWS} crews × ${ROWS}-row uploads, ${VIEWERS} viewers polling, ${seconds} s, ${url}\n`);
     const t0 = performance.now();
     const crews = crewTokens.map(async (token, crew) => {
       for (let round = 0; Date.now() < deadline; round++) {
@@ -163,10 +205,9 @@ async function main(): Promise<void> {
 
     // Every accepted reading is in the database: per log and in total.
     await app.stop();
-    const db = new Database(env.DATABASE_FILE, { readonly: true });
-    const stored = new Map((db.prepare("select log_id, count(*) as n from log_readings group by log_id").all() as { log_id: number; n: number }[]).map((r) => [r.log_id, r.n]));
-    const integrity = (db.prepare("pragma integrity_check").get() as { integrity_check: string }).integrity_check;
-    db.close();
+    const checkDb = createDb(dbConfig);
+    const { stored, integrity } = await storedReadings(checkDb);
+    await checkDb.destroy();
     let acceptedTotal = 0;
     let storedTotal = 0;
     for (const [logId, n] of accepted) {
@@ -176,7 +217,7 @@ async function main(): Promise<void> {
     }
     const extra = [...stored.keys()].filter((id) => !accepted.has(id));
     if (extra.length > 0) failures.push(`readings of logs no upload answer named: ${extra.join(", ")}`);
-    if (integrity !== "ok") failures.push(`integrity_check: ${integrity}`);
+    if (ENGINE === "sqlite" && integrity !== "ok") failures.push(`integrity_check: ${integrity}`);
 
     process.stdout.write(`\nwall ${wallS.toFixed(1)} s; ${stats.uploads} uploads started (${stats.rowsSent} rows sent)\n`);
     process.stdout.write(`${"request".padEnd(24)} ${"n".padStart(6)} ${"failed".padStart(6)} ${"req/s".padStart(7)} ${"p50 ms".padStart(8)} ${"p95 ms".padStart(8)} ${"p99 ms".padStart(8)}\n`);
@@ -191,9 +232,10 @@ async function main(): Promise<void> {
     if (failures.length > 0) {
       process.stdout.write(`\nLOAD NOT HELD: ${failures.length} problem(s)\n${failures.slice(0, 20).join("\n")}\n`);
       process.exitCode = 1;
-    } else process.stdout.write("load held: no failed request, no SQLite busy error, no reading lost\n");
+    } else process.stdout.write("load held: no failed request, no busy/locked error, no reading lost\n");
   } finally {
     await app.stop();
+    await postgres?.drop();
     fs.rmSync(dir, { recursive: true, force: true });
   }
 }
