@@ -1,7 +1,8 @@
 /**
  * Crashes: a second built app on its own fresh database is killed with SIGKILL in the middle of
  * a log import (after the upload is staged, while readings are written) and in the middle of a
- * correction run. After each restart the database passes PRAGMA integrity_check, holds no partial
+ * correction run. After each restart the database (SQLite, or PostgreSQL on `npm run test:e2e:pg`)
+ * passes PRAGMA integrity_check (SQLite), holds no partial
  * import (no readings without their log, the killed log absent, every stored original belongs to a
  * log and every log has its original), and the interrupted run reads as failed and can be rerun.
  */
@@ -9,10 +10,13 @@ import fs from "node:fs";
 import http from "node:http";
 import os from "node:os";
 import path from "node:path";
-import Database from "better-sqlite3";
+import { randomUUID } from "node:crypto";
+import pg from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { freePort, runStep, startBuiltApp, type RunningApp, PROJECT_ROOT } from "../../scripts/lib/app-process";
 import { DEMO_SIGN_INS } from "../../seeds/demo-users";
+import { createDb } from "../../src/server/db/create-db";
+import type { DatabaseConfig } from "../../src/server/env";
 
 const hasBuild = fs.existsSync(path.join(PROJECT_ROOT, ".next", "BUILD_ID"));
 const DAY = "2026-05-04";
@@ -25,6 +29,20 @@ let app: RunningApp | null = null;
 let port = 0;
 let cookie = "";
 let surveyId = "";
+let database: DatabaseConfig;
+/** PostgreSQL run: the admin URL this file makes (and drops) its own database on. */
+const pgAdminUrl = process.env.FIELDTIDE_TEST_PG_URL;
+const pgName = `fieldtide_crash_${randomUUID().replace(/-/g, "").slice(0, 12)}`;
+
+async function onAdmin(sql: string): Promise<void> {
+  const client = new pg.Client({ connectionString: pgAdminUrl });
+  await client.connect();
+  try {
+    await client.query(sql);
+  } finally {
+    await client.end();
+  }
+}
 
 function roverText(rows: number, tag: string): string {
   const out = ["timestamp,latitude,longitude,elevation_m,line,station,tmi_nT"];
@@ -91,27 +109,27 @@ async function uploadOnFreshConnection(text: string, name: string, fields: Recor
 
 const api = (p: string) => `${app!.url}/api/v1/surveys/${surveyId}/days/${DAY}${p}`;
 
-/** Database and upload folder facts, read directly (read-only) with no app running. */
-function inspect() {
-  const db = new Database(env.DATABASE_FILE, { readonly: true });
+/** Database and upload folder facts, read directly with no app running. */
+async function inspect() {
+  const db = createDb(database);
   try {
-    const integrity = (db.prepare("pragma integrity_check").all() as { integrity_check: string }[]).map((r) => r.integrity_check);
-    const orphanReadings = (db.prepare("select count(*) as n from log_readings where log_id not in (select id from field_logs)").get() as { n: number }).n;
-    const logs = db.prepare("select id, original_name, storage_key, reading_count from field_logs").all() as { id: number; original_name: string; storage_key: string; reading_count: number }[];
-    const readingsPerLog = db.prepare("select log_id, count(*) as n from log_readings group by log_id").all() as { log_id: number; n: number }[];
-    const runs = db.prepare("select number, status, error from correction_runs order by number").all() as { number: number; status: string; error: string | null }[];
+    const integrity = database.engine === "sqlite" ? ((await db.raw("pragma integrity_check")) as { integrity_check: string }[]).map((r) => r.integrity_check) : null; // PostgreSQL checks its own pages
+    const orphanReadings = Number((await db("log_readings").whereNotIn("log_id", db("field_logs").select("id")).count({ n: "*" }).first())?.n);
+    const logs = (await db("field_logs").select("id", "original_name", "storage_key", "reading_count")) as { id: number; original_name: string; storage_key: string; reading_count: number }[];
+    const readingsPerLog = ((await db("log_readings").select("log_id").count({ n: "*" }).groupBy("log_id")) as { log_id: number; n: number }[]).map((r) => ({ log_id: Number(r.log_id), n: Number(r.n) }));
+    const runs = (await db("correction_runs").orderBy("number").select("number", "status", "error")) as { number: number; status: string; error: string | null }[];
     const originalsDir = path.join(env.UPLOAD_DIR, "originals");
     const originals = fs.existsSync(originalsDir) ? fs.readdirSync(originalsDir) : [];
     const tmpDir = path.join(env.UPLOAD_DIR, "tmp");
     const temp = fs.existsSync(tmpDir) ? fs.readdirSync(tmpDir) : [];
     return { integrity, orphanReadings, logs, readingsPerLog, runs, originals, temp };
   } finally {
-    db.close();
+    await db.destroy();
   }
 }
 
-function expectConsistent(facts: ReturnType<typeof inspect>): void {
-  expect(facts.integrity).toEqual(["ok"]);
+function expectConsistent(facts: Awaited<ReturnType<typeof inspect>>): void {
+  if (database.engine === "sqlite") expect(facts.integrity).toEqual(["ok"]);
   expect(facts.orphanReadings).toBe(0);
   // Every log has exactly its readings and its original; no original without a log.
   for (const log of facts.logs) expect(facts.readingsPerLog.find((r) => r.log_id === log.id)?.n ?? 0, log.original_name).toBe(log.reading_count);
@@ -121,12 +139,24 @@ function expectConsistent(facts: ReturnType<typeof inspect>): void {
 beforeAll(async () => {
   if (!hasBuild) return;
   port = await freePort();
-  env = { DATABASE_FILE: path.join(dir, "crash.sqlite"), UPLOAD_DIR: path.join(dir, "uploads"), APP_URL: `http://localhost:${port}` };
+  database = { engine: "sqlite", file: path.join(dir, "crash.sqlite") };
+  if (pgAdminUrl) {
+    await onAdmin(`CREATE DATABASE ${pgName}`);
+    const u = new URL(pgAdminUrl);
+    u.pathname = `/${pgName}`;
+    database = { engine: "postgres", url: u.toString() };
+  }
+  env = {
+    DATABASE_FILE: path.join(dir, "crash.sqlite"),
+    DATABASE_URL: database.engine === "postgres" ? database.url : "",
+    UPLOAD_DIR: path.join(dir, "uploads"),
+    APP_URL: `http://localhost:${port}`,
+  };
   await runStep("npx", ["tsx", "scripts/db.ts", "migrate"], env);
   await runStep("npx", ["tsx", "scripts/db.ts", "seed"], env);
-  const db = new Database(env.DATABASE_FILE, { readonly: true });
-  surveyId = (db.prepare("select id from surveys where code = 'BRM-26'").get() as { id: string }).id;
-  db.close();
+  const db = createDb(database);
+  surveyId = ((await db("surveys").where({ code: "BRM-26" }).first("id")) as { id: string }).id;
+  await db.destroy();
   await start();
   expect((await upload(baseText(), "crash-base.csv", { kind: "base", baseSiteName: "Crash gate", baseLatitudeDeg: "53.6172", baseLongitudeDeg: "-1.9324" })).status).toBe(201);
   // Enough rover readings that a correction run lasts some seconds (it is killed in its first half).
@@ -135,12 +165,13 @@ beforeAll(async () => {
 
 afterAll(async () => {
   if (app) await kill();
+  if (pgAdminUrl) await onAdmin(`DROP DATABASE IF EXISTS ${pgName} WITH (FORCE)`);
   fs.rmSync(dir, { recursive: true, force: true });
 });
 
 describe.skipIf(!hasBuild)("SIGKILL of the server", () => {
   it("during an import: restart finds a sound database with no trace of the cut-off log", async () => {
-    const before = inspect();
+    const before = await inspect();
     const text = roverText(1_000_000, "K");
     const size = Buffer.byteLength(text);
     let answered: string | number | null = null;
@@ -167,7 +198,7 @@ describe.skipIf(!hasBuild)("SIGKILL of the server", () => {
     await kill();
     expect(await pending).toMatch(/^no answer/); // killed before it could answer: the import was cut off
 
-    const after = inspect();
+    const after = await inspect();
     expectConsistent(after);
     expect(after.logs.map((l) => l.original_name)).toEqual(before.logs.map((l) => l.original_name));
     // The staged upload may be left in tmp/ by the kill (never in originals/) …
@@ -175,7 +206,7 @@ describe.skipIf(!hasBuild)("SIGKILL of the server", () => {
 
     await start();
     // … and the restarted app sweeps it at boot.
-    expect(inspect().temp.filter((f) => f.endsWith(".part"))).toEqual([]);
+    expect((await inspect()).temp.filter((f) => f.endsWith(".part"))).toEqual([]);
     const listed = (await (await fetch(`${app!.url}/api/v1/surveys/${surveyId}/logs`, { headers: { cookie } })).json()) as { total: number };
     expect(listed.total).toBe(before.logs.length);
     // The same file uploads cleanly after the restart (its SHA-256 was never recorded).
@@ -197,7 +228,7 @@ describe.skipIf(!hasBuild)("SIGKILL of the server", () => {
       await new Promise((r) => setTimeout(r, 25));
     }
     await kill();
-    const cut = inspect();
+    const cut = await inspect();
     expectConsistent(cut);
     expect(cut.runs.find((r) => r.number === run.number)?.status).toBe("running"); // as the killed process left it
 
@@ -217,7 +248,7 @@ describe.skipIf(!hasBuild)("SIGKILL of the server", () => {
     }
     await app!.stop();
     app = null;
-    const final = inspect();
+    const final = await inspect();
     expectConsistent(final);
     expect(final.runs.map((r) => r.status)).toEqual(["failed", "done"]);
   }, 240_000);

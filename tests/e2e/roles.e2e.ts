@@ -41,6 +41,7 @@ describe("each demo role sees exactly its surveys", () => {
       const user = demo(role);
       await signIn(page, user.email, user.password);
       await page.goto("/surveys");
+      await page.getByText("Loading surveys").waitFor({ state: "hidden" }); // the list streams in after the page shell
       const body = await page.locator("main").innerText();
       for (const code of ALL_CODES) {
         if (codes.includes(code)) expect(body, `${role} should see ${code}`).toContain(code);

@@ -7,7 +7,7 @@
  */
 import fs from "node:fs";
 import path from "node:path";
-import Database from "better-sqlite3";
+import { createDb } from "@/src/server/db/create-db";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, BrowserContext, Page } from "playwright-core";
 import { DEMO_SIGN_INS } from "../../seeds/demo-users";
@@ -15,7 +15,6 @@ import { BASE_POSITION, DAY, baseCsv, roverCsv } from "../server/days/day-fixtur
 import { launchBrowser, newContext, signIn } from "./support/browser";
 
 const baseUrl = inject("baseUrl");
-const dataDir = inject("dataDir");
 const ROOT = path.resolve(import.meta.dirname, "..", "..");
 const admin = DEMO_SIGN_INS.find((u) => u.email.startsWith("admin@"))!;
 
@@ -52,8 +51,8 @@ async function upload(cookie: string, surveyId: string, fields: Record<string, s
 
 beforeAll(async () => {
   browser = await launchBrowser();
-  const db = new Database(path.join(dataDir, "e2e.sqlite"), { readonly: true, fileMustExist: true });
-  const surveyId = (db.prepare("select id from surveys where code = 'SDK-26'").get() as { id: string }).id;
+  const db = createDb(inject("database"));
+  const surveyId = ((await db("surveys").where({ code: "SDK-26" }).first("id")) as { id: string }).id;
   const cookie = await apiCookie();
   await upload(cookie, surveyId, { kind: "base", baseSiteName: "CSP gate", baseLatitudeDeg: String(BASE_POSITION.latDeg), baseLongitudeDeg: String(BASE_POSITION.lonDeg) }, baseCsv(), "csp-base.csv");
   await upload(cookie, surveyId, { kind: "rover", acceptGoodRows: "true" }, roverCsv({ lines: 2, perLine: 150 }), "csp-rover.csv");
@@ -64,9 +63,9 @@ beforeAll(async () => {
     if (runs.every((r) => r.status !== "queued" && r.status !== "running")) break;
     await new Promise((r) => setTimeout(r, 250));
   }
-  const logRow = db.prepare("select id from field_logs where survey_id = ? order by id desc").get(surveyId) as { id: number };
-  let mail = db.prepare("select id from captured_mail order by id desc").get() as { id: number } | undefined;
-  db.close();
+  const logRow = (await db("field_logs").where({ survey_id: surveyId }).orderBy("id", "desc").first("id")) as { id: number };
+  const latestMail = async () => (await db("captured_mail").orderBy("id", "desc").first("id")) as { id: number } | undefined;
+  let mail = await latestMail();
   if (!mail) {
     const context = await newContext(browser, baseUrl);
     const page = await context.newPage();
@@ -75,10 +74,9 @@ beforeAll(async () => {
     await page.getByRole("button").first().click();
     await page.waitForTimeout(1000);
     await context.close();
-    const again = new Database(path.join(dataDir, "e2e.sqlite"), { readonly: true });
-    mail = again.prepare("select id from captured_mail order by id desc").get() as { id: number } | undefined;
-    again.close();
+    mail = await latestMail();
   }
+  await db.destroy();
   params = { surveyId, date: DAY, logId: String(logRow.id), mailId: String(mail?.id ?? 1), token: "no-such-token-0000000000000000" };
 });
 
