@@ -11,7 +11,7 @@ import type { Readable } from "node:stream";
 import { DeleteObjectCommand, GetObjectCommand, HeadObjectCommand, paginateListObjectsV2, S3Client, S3ServiceException } from "@aws-sdk/client-s3";
 import { Upload } from "@aws-sdk/lib-storage";
 import type { S3StorageConfig } from "../env";
-import { STORAGE_KEY_RE } from "./layout";
+import { s3OriginalsLocation, s3OriginalsPrefix, STORAGE_KEY_RE } from "./layout";
 import { assertStorageKey, type OriginalStore, type StoredOriginal } from "./original-store";
 
 /** 8 MiB parts: S3's minimum is 5 MiB; a 200 MiB original is 25 parts. */
@@ -31,7 +31,7 @@ export function createS3Store(config: S3StorageConfig): OriginalStore {
     forcePathStyle: config.forcePathStyle,
     credentials: config.credentials,
   });
-  const base = `${config.prefix}originals/`;
+  const base = s3OriginalsPrefix(config.prefix);
   const objectKey = (key: string) => {
     assertStorageKey(key);
     return base + key;
@@ -39,7 +39,7 @@ export function createS3Store(config: S3StorageConfig): OriginalStore {
   const Bucket = config.bucket;
   return {
     backend: "s3",
-    location: `s3://${Bucket}/${base}`,
+    location: s3OriginalsLocation(config),
     async commit(staged, key) {
       const Key = objectKey(key);
       const upload = new Upload({

@@ -2,7 +2,8 @@
  * The import and download paths with STORAGE_BACKEND=s3, the bucket being the loopback fake S3
  * server reached through the real AWS SDK: a log imported over the API route is downloaded back
  * byte for byte; an import refused before the upload stores nothing; an import whose database
- * COMMIT fails after the upload leaves no object behind; the boot sweep removes an orphan.
+ * COMMIT fails after the upload leaves no object behind; the boot sweep removes an orphan; a
+ * backup names the bucket instead of copying its objects, and restores.
  */
 import { createHash, randomUUID } from "node:crypto";
 import fs from "node:fs";
@@ -19,6 +20,7 @@ const { importLogStream } = await import("@/src/server/logs/import-service");
 const { getLog } = await import("@/src/server/logs/read-service");
 const { LogImportRefusedError } = await import("@/src/server/logs/errors");
 const { getOriginalStore } = await import("@/src/server/storage/store");
+const { createBackup, restoreBackup } = await import("@/src/server/backup");
 const { sweepStorageAtBoot, ORPHAN_MIN_AGE_MS } = await import("@/src/server/storage/boot-sweep");
 const { createApiToken } = await import("@/src/server/api-tokens/service");
 const { getDb } = await import("@/src/server/db/client");
@@ -118,5 +120,24 @@ describe("imports with the S3 backend", () => {
     expect(await store.exists(orphan)).toBe(false);
     expect(lines.join("\n")).toMatch(/removed 1 original\(s\) in s3:\/\/fieldtide-test\/test-prefix\/originals\//);
     for (const key of named) expect(await store.exists(key)).toBe(true);
+  });
+});
+
+describe("backups with the S3 backend", () => {
+  it("the backup names the bucket and copies no originals; its restore checks out and the originals are where it says", async () => {
+    const store = await getOriginalStore();
+    const outDir = path.join(testDb.dir, "backup-1");
+    const { manifest } = await createBackup({ databaseFile: testDb.file, uploadDir: process.env.UPLOAD_DIR!, outDir, appVersion: "test", originalsLocation: store.location });
+    const logs = await getDb()("field_logs").select("storage_key");
+    expect(logs.length).toBeGreaterThan(0);
+    expect(manifest.originalsLocation).toBe("s3://fieldtide-test/test-prefix/originals/");
+    expect(manifest.originals).toEqual([]);
+    expect(fs.readdirSync(path.join(outDir, "originals"))).toEqual([]);
+
+    const restoredFile = path.join(testDb.dir, "restored", "fieldtide.sqlite");
+    const restored = await restoreBackup({ fromDir: outDir, databaseFile: restoredFile, uploadDir: path.join(testDb.dir, "restored-uploads") });
+    expect(restored.copiedFiles).toBe(0);
+    expect(restored.manifest.tables.field_logs).toBe(logs.length);
+    for (const { storage_key } of logs) expect(await store.exists(storage_key)).toBe(true);
   });
 });
