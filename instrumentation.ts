@@ -1,5 +1,6 @@
 /**
  * Next's boot hook (Node.js server only):
+ * - stops with a one-line message when the environment is invalid (src/server/env.ts);
  * - removes staged uploads left by a process that died mid-import (they never became originals),
  *   and stored originals that no log row names (src/server/storage/boot-sweep.ts);
  * - with FAKE_SMTP=1 starts the local fake SMTP server once, on SMTP_URL's host and port, so
@@ -8,6 +9,14 @@
 export async function register(): Promise<void> {
   if (process.env.NEXT_RUNTIME !== "nodejs") return;
   const bootMs = Date.now();
+  const { getEnv } = await import("./src/server/env");
+  try {
+    getEnv();
+  } catch (err) {
+    // a bad or incomplete environment (e.g. STORAGE_BACKEND=s3 without S3_BUCKET): one line, and stop
+    console.error(`fieldtide: ${err instanceof Error ? err.message : String(err)}`);
+    process.exit(1);
+  }
   const { sweepStorageAtBoot } = await import("./src/server/storage/boot-sweep");
   await sweepStorageAtBoot(bootMs);
   if (process.env.FAKE_SMTP !== "1") return;

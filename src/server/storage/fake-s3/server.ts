@@ -217,7 +217,8 @@ export async function startFakeS3Server(opts: FakeS3Options): Promise<FakeS3Serv
       const uploadId = randomUUID();
       const dir = path.join(bucketDir(bucket), "uploads", uploadId);
       fs.mkdirSync(dir, { recursive: true });
-      fs.writeFileSync(path.join(dir, "upload.json"), JSON.stringify({ key, contentType: req.headers["content-type"] ?? "application/octet-stream" }));
+      // S3 dates a multipart object by the upload's start
+      fs.writeFileSync(path.join(dir, "upload.json"), JSON.stringify({ key, startedMs: Date.now(), contentType: req.headers["content-type"] ?? "application/octet-stream" }));
       req.resume();
       return sendXml(res, 200, `<InitiateMultipartUploadResult ${NS}><Bucket>${xmlEscape(bucket)}</Bucket><Key>${xmlEscape(key)}</Key><UploadId>${uploadId}</UploadId></InitiateMultipartUploadResult>`);
     }
@@ -307,10 +308,11 @@ export async function startFakeS3Server(opts: FakeS3Options): Promise<FakeS3Serv
       } catch {
         throw new S3Error(400, "InvalidPart", `Part ${p.partNumber} was not uploaded.`);
       }
-      if (info.etag !== p.etag && `"${info.etag.replace(/"/g, "")}"` !== `"${p.etag.replace(/"/g, "")}"`) throw new S3Error(400, "InvalidPart", `Part ${p.partNumber} has a different ETag.`);
+      const unquoted = (etag: string) => etag.replace(/"/g, "");
+      if (unquoted(info.etag) !== unquoted(p.etag)) throw new S3Error(400, "InvalidPart", `Part ${p.partNumber} has a different ETag.`);
       digests.push(Buffer.from(info.etag.replace(/"/g, ""), "hex"));
     }
-    const upload = JSON.parse(fs.readFileSync(path.join(dir, "upload.json"), "utf8")) as { contentType: string };
+    const upload = JSON.parse(fs.readFileSync(path.join(dir, "upload.json"), "utf8")) as { startedMs: number; contentType: string };
     const file = objectFile(bucket, key);
     const temp = path.join(bucketDir(bucket), `.assembling-${randomUUID()}`);
     let sizeBytes = 0;
@@ -330,7 +332,7 @@ export async function startFakeS3Server(opts: FakeS3Options): Promise<FakeS3Serv
       fs.rmSync(temp, { force: true });
     }
     const etag = `"${createHash("md5").update(Buffer.concat(digests)).digest("hex")}-${parts.length}"`;
-    const meta: ObjectMeta = { key, sizeBytes, etag, lastModifiedMs: fs.statSync(dir).birthtimeMs || Date.now(), contentType: upload.contentType };
+    const meta: ObjectMeta = { key, sizeBytes, etag, lastModifiedMs: upload.startedMs, contentType: upload.contentType };
     fs.writeFileSync(file + ".json", JSON.stringify(meta));
     fs.rmSync(dir, { recursive: true, force: true });
     sendXml(res, 200, `<CompleteMultipartUploadResult ${NS}><Bucket>${xmlEscape(bucket)}</Bucket><Key>${xmlEscape(key)}</Key><ETag>${xmlEscape(etag)}</ETag></CompleteMultipartUploadResult>`);
