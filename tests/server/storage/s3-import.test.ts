@@ -17,7 +17,8 @@ const testDb = setupTestDatabase({ ...s3.env, UPLOAD_DIR: "" });
 process.env.UPLOAD_DIR = path.join(testDb.dir, "uploads");
 
 const { importLogStream } = await import("@/src/server/logs/import-service");
-const { getLog } = await import("@/src/server/logs/read-service");
+const { getLog, openLogOriginal } = await import("@/src/server/logs/read-service");
+const { PART_SIZE_BYTES } = await import("@/src/server/storage/s3-store");
 const { LogImportRefusedError } = await import("@/src/server/logs/errors");
 const { getOriginalStore } = await import("@/src/server/storage/store");
 const { createBackup, restoreBackup } = await import("@/src/server/backup");
@@ -71,6 +72,21 @@ describe("imports with the S3 backend", () => {
     expect(body.equals(Buffer.from(text, "utf8"))).toBe(true);
     expect(sha(body)).toBe(res.headers.get("x-content-sha256"));
     expect(sha(body)).toBe(row.sha256);
+  });
+
+  it("a log larger than one part goes up as a multipart upload and still downloads byte for byte", async () => {
+    const text = roverCsv(120_000, { startIso: "2026-05-07T06:00:00Z" });
+    expect(Buffer.byteLength(text)).toBeGreaterThan(PART_SIZE_BYTES);
+    const ops = s3.server.operations.length;
+    const result = await importLogStream(crew, surveyId, streamOf(text), { kind: "rover", fileName: "long-line.csv" });
+    expect(result.log.readingCount).toBe(120_000);
+    const served = s3.server.operations.slice(ops);
+    expect(served).toContain("CreateMultipartUpload");
+    expect(served.filter((o) => o === "UploadPart").length).toBe(Math.ceil(Buffer.byteLength(text) / PART_SIZE_BYTES));
+    const { stream } = await openLogOriginal(crew, surveyId, result.log.id);
+    const parts: Buffer[] = [];
+    for await (const c of stream) parts.push(c as Buffer);
+    expect(sha(Buffer.concat(parts))).toBe(sha(text));
   });
 
   it("a refused import (duplicate) uploads nothing", async () => {
