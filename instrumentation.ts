@@ -9,14 +9,8 @@
 export async function register(): Promise<void> {
   if (process.env.NEXT_RUNTIME !== "nodejs") return;
   const bootMs = Date.now();
-  const { getEnv } = await import("./src/server/env");
-  try {
-    getEnv();
-  } catch (err) {
-    // a bad or incomplete environment (e.g. STORAGE_BACKEND=s3 without S3_BUCKET): one line, and stop
-    console.error(`fieldtide: ${err instanceof Error ? err.message : String(err)}`);
-    process.exit(1);
-  }
+  const { exitOnInvalidEnv } = await import("./src/server/boot-env-check");
+  exitOnInvalidEnv();
   const { sweepStorageAtBoot } = await import("./src/server/storage/boot-sweep");
   await sweepStorageAtBoot(bootMs);
   if (process.env.FAKE_SMTP !== "1") return;
