@@ -10,6 +10,7 @@ import { getEnv } from "../src/server/env";
 import { APP_VERSION } from "../src/server/version";
 import { MIGRATION_NAMES } from "../src/server/db/migration-source";
 import { createBackup, defaultBackupName, restoreBackup } from "../src/server/backup";
+import { s3OriginalsLocation } from "../src/server/storage/layout";
 
 const USAGE = [
   "usage: tsx scripts/db-backup.ts backup [--out DIR] [--database FILE] [--upload-dir DIR]",
@@ -54,16 +55,24 @@ async function main(argv: string[]): Promise<number> {
 
   if (args.data.command === "backup") {
     const outDir = path.resolve(args.data.out ?? path.join("data", "backups", defaultBackupName(new Date())));
-    const r = await createBackup({ databaseFile, uploadDir, outDir, appVersion: APP_VERSION });
+    // With STORAGE_BACKEND=s3 the originals stay in the bucket: the backup names it and copies none.
+    const originalsLocation = env.storage.backend === "s3" ? s3OriginalsLocation(env.storage) : undefined;
+    const r = await createBackup({ databaseFile, uploadDir, outDir, appVersion: APP_VERSION, originalsLocation });
     const rows = Object.values(r.manifest.tables).reduce((a, b) => a + b, 0);
     console.log(`backup written to ${r.dir}`);
     console.log(`  database: ${Object.keys(r.manifest.tables).length} tables, ${rows} rows, migration ${r.manifest.migration.current ?? "none"}, integrity ok`);
-    console.log(`  originals: ${r.manifest.originals.length} files; SHA-256 of every file in manifest.json`);
+    if (r.manifest.originalsLocation) console.log(`  originals: NOT copied; they live in ${r.manifest.originalsLocation} (protect that bucket with its own versioning or replication)`);
+    else console.log(`  originals: ${r.manifest.originals.length} files; SHA-256 of every file in manifest.json`);
     return 0;
   }
   const r = await restoreBackup({ fromDir: path.resolve(args.data.from), databaseFile, uploadDir, force: args.data.force, knownMigrations: MIGRATION_NAMES });
   console.log(`restored ${r.databaseFile} from the backup of ${r.manifest.createdAt} (checksums and integrity_check ok)`);
-  console.log(`  originals: ${r.copiedFiles} copied, ${r.keptFiles} already in place, into ${path.join(uploadDir, "originals")}`);
+  if (r.manifest.originalsLocation) {
+    console.log(`  originals: none in this backup; the database expects them in ${r.manifest.originalsLocation}`);
+    const here = env.storage.backend === "s3" ? s3OriginalsLocation(env.storage) : path.join(uploadDir, "originals");
+    if (here !== r.manifest.originalsLocation) console.log(`  note: this environment keeps originals in ${here}; set STORAGE_BACKEND=s3 and S3_* to that bucket before starting the app`);
+  }
+  else console.log(`  originals: ${r.copiedFiles} copied, ${r.keptFiles} already in place, into ${path.join(uploadDir, "originals")}`);
   if (r.replacedTo) console.log(`  the database it replaced was moved to ${r.replacedTo}`);
   return 0;
 }

@@ -47,6 +47,7 @@ export async function loadDemoLogs(folder: string): Promise<{ imported: number; 
   const { getDb, closeDb } = await import("../src/server/db/client");
   const { importLogStream } = await import("../src/server/logs/import-service");
   const { actorFromRow } = await import("../src/server/auth/actor");
+  const { closeOriginalStore } = await import("../src/server/storage/store");
   const db = getDb();
   let imported = 0;
   let skipped = 0;
@@ -80,6 +81,7 @@ export async function loadDemoLogs(folder: string): Promise<{ imported: number; 
     }
   } finally {
     await closeDb();
+    await closeOriginalStore();
   }
   return { imported, skipped };
 }

@@ -8,6 +8,8 @@
  * 2. Facts from the SNAPSHOT (not the live file): integrity_check, row counts, migrations, and
  *    the storage keys it references.
  * 3. The referenced originals are copied; each copy must hash to the SHA-256 recorded at upload.
+ *    With STORAGE_BACKEND=s3 they stay in the bucket and are NOT copied: the manifest names the
+ *    bucket (`originalsLocation`), and the bucket's own versioning or replication protects them.
  *    An original is written to disk before the row that names it commits, so every file the
  *    snapshot names exists; files uploaded after the snapshot are not needed and not copied.
  * 4. manifest.json, then the staging folder is renamed to the backup folder: a backup folder
@@ -31,6 +33,8 @@ export interface CreateBackupOptions {
   /** Backup folder to create; it must not exist yet, or be empty. */
   outDir: string;
   appVersion: string;
+  /** The originals live here (an S3 bucket's `s3://…/originals/`) and are not copied. */
+  originalsLocation?: string;
   now?: () => Date;
 }
 
@@ -93,7 +97,7 @@ export async function createBackup(opts: CreateBackupOptions): Promise<BackupRes
 
     fs.mkdirSync(path.join(staging, ORIGINALS_DIR));
     const originals: BackupManifest["originals"] = [];
-    for (const ref of facts.files) {
+    for (const ref of opts.originalsLocation ? [] : facts.files) {
       if (!StorageKey.safeParse(ref.storageKey).success) throw new BackupError(`the database names an original "${ref.storageKey}" that is not a generated storage key`);
       const source = path.join(ref.dirOf(uploadDir), ref.storageKey);
       if (!fs.existsSync(source)) {
@@ -115,6 +119,7 @@ export async function createBackup(opts: CreateBackupOptions): Promise<BackupRes
       migration: { current: facts.applied.at(-1) ?? null, applied: facts.applied },
       database: { file: SNAPSHOT_FILE, sha256: await sha256File(snapshotFile), sizeBytes: fs.statSync(snapshotFile).size, integrityCheck: "ok" },
       tables: facts.tables,
+      ...(opts.originalsLocation ? { originalsLocation: opts.originalsLocation } : {}),
       originals,
     } satisfies BackupManifest);
     writeManifest(staging, manifest);

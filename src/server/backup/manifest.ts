@@ -41,6 +41,11 @@ export const ManifestSchema = z.object({
   }),
   /** Rows per table of the snapshot (sqlite_* internals excluded). */
   tables: z.record(z.string(), z.number().int().nonnegative()),
+  /**
+   * Set when the originals live in an S3 bucket (STORAGE_BACKEND=s3): where they are, e.g.
+   * `s3://bucket/prefix/originals/`. They are then not copied and `originals` is empty.
+   */
+  originalsLocation: z.string().min(1).optional(),
   originals: z.array(
     z.object({
       storageKey: StorageKey,

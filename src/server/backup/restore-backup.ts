@@ -9,7 +9,8 @@
  *    pass `PRAGMA integrity_check`, hold the manifest's row counts and migrations, and refer to
  *    exactly the originals in the backup;
  * 5. originals are copied in via UPLOAD_DIR/tmp and renamed into UPLOAD_DIR/originals (an
- *    original already there with the same bytes is kept; a different one needs `force`);
+ *    original already there with the same bytes is kept; a different one needs `force`); a backup
+ *    made with STORAGE_BACKEND=s3 holds none (its manifest names the bucket), so none are copied;
  * 6. last, the staged database is renamed onto DATABASE_FILE; with `force` the database it
  *    replaces is moved aside (with its -wal/-shm) to `<file>.before-restore-<time>`, never deleted.
  * Stop the app before restoring over a database it has open.
@@ -83,7 +84,7 @@ function verifyStagedDatabase(file: string, manifest: BackupManifest): void {
     }
     const referenced = referencedFiles(db).map((r) => r.storageKey).sort();
     const inBackup = manifest.originals.map((o) => o.storageKey).sort();
-    if (JSON.stringify(referenced) !== JSON.stringify(inBackup)) {
+    if (!manifest.originalsLocation && JSON.stringify(referenced) !== JSON.stringify(inBackup)) {
       throw new BackupError(`the backed-up database refers to ${referenced.length} original files, the backup holds ${inBackup.length}`);
     }
   } finally {

@@ -107,7 +107,7 @@ export async function importStagedLog(
   controls: ImportControls = {},
 ): Promise<LogImportResult> {
   let storageKey: string | null = null;
-  let committedFile = false;
+  let fileStoring = false;
   try {
     await assertCanUploadLogs(actor, surveyId);
     const options = parseFields(fields);
@@ -116,13 +116,15 @@ export async function importStagedLog(
     storageKey = key;
     const result = await getDb().transaction(async (trx) => {
       const outcome = await importInTransaction(trx, actor, surveyId, staged, options, controls, key);
-      commitStaged(staged, key); // last step: the rename happens only if everything before it held
-      committedFile = true;
+      fileStoring = true;
+      await commitStaged(staged, key); // last step: the file is stored only if everything before it held
       return outcome;
     });
     return result;
   } catch (err) {
-    if (committedFile && storageKey) removeStored(storageKey); // the commit itself failed
+    // the store or the commit itself failed: no row names the key, so its object goes (a failed
+    // removal is left to the boot-time orphan sweep rather than hiding the import's own error)
+    if (fileStoring && storageKey) await removeStored(storageKey).catch(() => undefined);
     throw err;
   } finally {
     discardStaged(staged);

@@ -247,7 +247,7 @@ export async function getLog(actor: Actor, surveyId: string, logId: unknown, opt
       lastTimeMs: d.last_time_ms,
     })),
     originalUrl: logOriginalUrl(surveyId, row.id),
-    originalAvailable: storedExists(row.storage_key),
+    originalAvailable: await storedExists(row.storage_key),
     problems: problemRows.map(toProblem),
   };
 }
@@ -282,6 +282,7 @@ export async function openLogOriginal(actor: Actor, surveyId: string, logId: unk
   const db = getDb();
   await assertSurveyPermission(actor, surveyId, "logs.read", db);
   const row = await loadLog(db, surveyId, logId);
-  if (!storedExists(row.storage_key)) throw new NotFoundError("The original file is missing from storage.");
-  return { stream: openStored(row.storage_key), fileName: row.original_name, sizeBytes: row.size_bytes, sha256: row.sha256 };
+  const stream = await openStored(row.storage_key);
+  if (!stream) throw new NotFoundError("The original file is missing from storage.");
+  return { stream, fileName: row.original_name, sizeBytes: row.size_bytes, sha256: row.sha256 };
 }

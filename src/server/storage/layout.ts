@@ -1,6 +1,7 @@
 /**
  * Where originals live under UPLOAD_DIR, without `server-only` so scripts (backup, demo loader)
- * share it: `originals/<key>` for committed files, `tmp/<uuid>.part` while an upload streams in.
+ * share it: `originals/<key>` for committed files, `tmp/<uuid>.part` while an upload streams in;
+ * with STORAGE_BACKEND=s3, committed files are objects `<S3_PREFIX>originals/<key>` instead.
  */
 import fs from "node:fs";
 import path from "node:path";
@@ -14,6 +15,16 @@ export function originalsDir(uploadDir: string): string {
 
 export function tempDir(uploadDir: string): string {
   return path.join(uploadDir, "tmp");
+}
+
+/** Object-key prefix of originals in a bucket: `<S3_PREFIX>originals/` (S3_PREFIX is empty or ends in "/"). */
+export function s3OriginalsPrefix(prefix: string): string {
+  return `${prefix}originals/`;
+}
+
+/** `s3://bucket/<prefix>originals/`, for messages and the backup manifest. */
+export function s3OriginalsLocation(config: { bucket: string; prefix: string }): string {
+  return `s3://${config.bucket}/${s3OriginalsPrefix(config.prefix)}`;
 }
 
 /** fsync a directory so a rename into it survives a crash; a filesystem that refuses is ignored (the rename is atomic anyway). */

@@ -1,9 +1,10 @@
 import "server-only";
 /**
- * Original log files, kept verbatim under UPLOAD_DIR. An upload is first written to a temp file
- * (hashed with SHA-256 and counted as it streams, fsync'd), and moved into place under a
- * generated key only when the import that owns it commits; on failure the temp file is removed.
- * File names from uploads never reach a filesystem path: keys are generated here.
+ * Original log files, kept verbatim. An upload is first written to a temp file under UPLOAD_DIR/tmp
+ * (hashed with SHA-256 and counted as it streams, fsync'd), and handed to the OriginalStore (the
+ * local folder UPLOAD_DIR/originals, or a bucket: see store.ts) under a generated key only when
+ * the import that owns it commits; on failure the temp file is removed.
+ * File names from uploads never reach a filesystem path or an object key: keys are generated here.
  */
 import { createHash, randomUUID } from "node:crypto";
 import fs from "node:fs";
@@ -12,7 +13,8 @@ import { pipeline } from "node:stream/promises";
 import { Transform, type Readable } from "node:stream";
 import { getEnv } from "../env";
 import { FileTooLargeError } from "./errors";
-import { fsyncDir, originalsDir as originalsIn, STORAGE_KEY_RE, tempDir as tempIn } from "./layout";
+import { originalsDir as originalsIn, STORAGE_KEY_RE, tempDir as tempIn } from "./layout";
+import { getOriginalStore } from "./store";
 
 import { MAX_UPLOAD_BYTES } from "./limits";
 
@@ -44,7 +46,7 @@ function originalsDir(): string {
   return originalsIn(uploadRoot());
 }
 
-/** Path of a stored original; throws on a key this module did not make. */
+/** Path of a stored original with the local backend; throws on a key this module did not make. */
 export function storedPath(storageKey: string): string {
   if (!STORAGE_KEY_RE.test(storageKey)) throw new Error("invalid storage key");
   return path.join(originalsDir(), storageKey);
@@ -127,13 +129,9 @@ export async function stageUpload(source: Readable | AsyncIterable<Uint8Array>, 
   };
 }
 
-/** Moves a staged file into place under `storageKey` (atomic rename in the same filesystem). */
-export function commitStaged(staged: StagedFile, storageKey: string): string {
-  const target = storedPath(storageKey);
-  fs.mkdirSync(originalsDir(), { recursive: true });
-  fs.renameSync(staged.tempPath, target);
-  fsyncDir(originalsDir());
-  return target;
+/** Hands a staged file to the store under `storageKey` (local: atomic rename; S3: upload). */
+export async function commitStaged(staged: StagedFile, storageKey: string): Promise<void> {
+  await (await getOriginalStore()).commit(staged, storageKey);
 }
 
 /** Removes a staged temp file (no error when it is already gone). */
@@ -141,18 +139,18 @@ export function discardStaged(staged: StagedFile | null | undefined): void {
   if (staged) fs.rmSync(staged.tempPath, { force: true });
 }
 
-/** Removes a stored original (used when the database commit fails after the rename). */
-export function removeStored(storageKey: string): void {
-  fs.rmSync(storedPath(storageKey), { force: true });
+/** Removes a stored original (used when the database commit fails after the file was stored). */
+export async function removeStored(storageKey: string): Promise<void> {
+  await (await getOriginalStore()).remove(storageKey);
 }
 
-export function storedExists(storageKey: string): boolean {
-  return fs.existsSync(storedPath(storageKey));
+export async function storedExists(storageKey: string): Promise<boolean> {
+  return (await getOriginalStore()).exists(storageKey);
 }
 
-/** A read stream of a stored original. */
-export function openStored(storageKey: string): fs.ReadStream {
-  return fs.createReadStream(storedPath(storageKey));
+/** A read stream of a stored original, or null when it is missing from storage. */
+export async function openStored(storageKey: string): Promise<Readable | null> {
+  return (await getOriginalStore()).open(storageKey);
 }
 
 /** A read stream of a staged (not yet committed) file, in large chunks. */
@@ -160,8 +158,9 @@ export function openStaged(staged: StagedFile): fs.ReadStream {
   return fs.createReadStream(staged.tempPath, { highWaterMark: 1024 * 1024 });
 }
 
-/** Names of files currently in the temp and originals folders (tests check nothing is left over). */
-export function listStorage(): { temp: string[]; originals: string[] } {
-  const list = (dir: string) => (fs.existsSync(dir) ? fs.readdirSync(dir).sort() : []);
-  return { temp: list(tempDir()), originals: list(originalsDir()) };
+/** Staged temp files and stored originals' keys (tests check nothing is left over). */
+export async function listStorage(): Promise<{ temp: string[]; originals: string[] }> {
+  const temp = fs.existsSync(tempDir()) ? fs.readdirSync(tempDir()).sort() : [];
+  const originals = (await (await getOriginalStore()).list()).map((o) => o.key);
+  return { temp, originals };
 }

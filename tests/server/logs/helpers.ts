@@ -14,7 +14,7 @@ export async function snapshot(): Promise<Snapshot> {
     const row = await getDb()(t).count<{ n: number }[]>({ n: "*" });
     out[t] = Number(row[0].n);
   }
-  const files = listStorage();
+  const files = await listStorage();
   out.tempFiles = files.temp.length;
   out.originals = files.originals.length;
   return out;
