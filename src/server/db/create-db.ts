@@ -45,6 +45,13 @@ export function createDb(config: DatabaseConfig | string): Knex {
       // One writer: SQLite serialises writes anyway; knex's sqlite default is also 1.
       min: 1,
       max: 1,
+      // Knex leaves SQLite inside the transaction when COMMIT itself fails (a deferred constraint,
+      // a full disk): the one connection would then carry every later write into a transaction
+      // nobody commits. Whoever takes the connection next finds it rolled back first.
+      validate(conn: { inTransaction: boolean; exec(sql: string): unknown }) {
+        if (conn.inTransaction) conn.exec("ROLLBACK");
+        return true;
+      },
       afterCreate(conn: { pragma(s: string): unknown }, done: (err: Error | null, conn: unknown) => void) {
         try {
           applyPragmas(conn);

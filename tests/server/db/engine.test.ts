@@ -71,3 +71,29 @@ describe(`engine adapter (${testDb.engine})`, () => {
     expect(logs).toEqual([{ reading_count: 20_000 }]);
   });
 });
+
+describe.skipIf(testDb.engine !== "sqlite")("SQLite: a COMMIT that fails", () => {
+  it("does not leave the one connection inside the transaction: the next write is committed", async () => {
+    const db = getDb();
+    // a deferred foreign key fails only at COMMIT
+    await db.raw("CREATE TABLE commit_breaker (survey_id TEXT REFERENCES surveys(id) DEFERRABLE INITIALLY DEFERRED)");
+    try {
+      const err = await db.transaction(async (trx) => {
+        await trx("commit_breaker").insert({ survey_id: "no-such-survey" });
+      }).catch((e: unknown) => e);
+      expect(String(err)).toMatch(/FOREIGN KEY constraint failed/);
+      await db("surveys").where({ id: surveyId }).update({ notes: "written after the failed commit" });
+      // a second connection sees only committed data
+      const { default: Database } = await import("better-sqlite3");
+      const other = new Database(testDb.file, { readonly: true });
+      try {
+        expect((other.prepare("SELECT notes FROM surveys WHERE id = ?").get(surveyId) as { notes: string }).notes).toBe("written after the failed commit");
+        expect((other.prepare("SELECT COUNT(*) AS n FROM commit_breaker").get() as { n: number }).n).toBe(0);
+      } finally {
+        other.close();
+      }
+    } finally {
+      await db.raw("DROP TABLE IF EXISTS commit_breaker");
+    }
+  });
+});
