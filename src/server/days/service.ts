@@ -8,6 +8,7 @@ import "server-only";
 import type { Knex } from "knex";
 import "@/src/lib/zod-jitless";
 import { z } from "zod";
+import { assertSurveyWritable } from "../surveys/writable";
 import type { Actor } from "../auth/actor";
 import { assertSurveyPermission } from "../authz/permissions";
 import { getDb } from "../db/client";
@@ -264,6 +265,7 @@ export async function saveDayPairing(actor: Actor, surveyId: string, day: unknow
   const d = parseDay(day);
   const v = parseInput(PairingInputSchema, input);
   const db = getDb();
+  await assertSurveyWritable(db, surveyId, "changing which logs a day uses");
   const logs = (await logDayRows(db, surveyId, d)).map(toDayLog);
   if (logs.length === 0) throw new NotFoundError("No logs on this day.");
   if (v.method === "default") {

@@ -8,6 +8,7 @@ import "server-only";
 import type { Knex } from "knex";
 import "@/src/lib/zod-jitless";
 import { z } from "zod";
+import { assertSurveyWritable } from "../surveys/writable";
 import type { Actor } from "../auth/actor";
 import { recordAudit } from "../audit/record";
 import { assertSurveyPermission } from "../authz/permissions";
@@ -71,6 +72,7 @@ export async function saveKpValues(actor: Actor, surveyId: string, input: unknow
   if (errors.length > 0) throw new ValidationError({ text: errors.slice(0, 20) }, errors.length > 20 ? `${errors.length} rows need attention; the first 20 are listed.` : undefined);
   return getDb().transaction(async (trx) => {
     await assertSurveyPermission(actor, surveyId, "kp.update", trx);
+    await assertSurveyWritable(trx, surveyId, "adding Kp values");
     const now = nowIso();
     const starts = entries.map((e) => new Date(e.intervalStartMs).toISOString());
     let replaced = 0;

@@ -4,6 +4,8 @@ import "server-only";
  * open to every member; changing needs "processing.update" (processor or lead).
  */
 import type { Knex } from "knex";
+import { serializeOn } from "../db/engine";
+import { assertSurveyWritable } from "../surveys/writable";
 import type { Actor } from "../auth/actor";
 import { assertSurveyPermission } from "../authz/permissions";
 import { getDb } from "../db/client";
@@ -64,6 +66,8 @@ export async function updateProcessingSettings(
   if (next.datumKind !== "value") next.datumValueNt = next.datumValueNt ?? null;
   return getDb().transaction(async (trx) => {
     await assertSurveyPermission(actor, surveyId, "processing.update", trx);
+    await assertSurveyWritable(trx, surveyId, "changing its processing settings");
+    await serializeOn(trx, `processing-settings:${surveyId}`); // the next revision is read, then written
     const current = await readSettings(trx, surveyId);
     const now = nowIso();
     const revision = current.revision + 1;

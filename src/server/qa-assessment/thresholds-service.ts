@@ -4,6 +4,8 @@ import "server-only";
  * trail. Every member reads them; the processor or the lead changes them ("qa.update").
  */
 import type { Knex } from "knex";
+import { serializeOn } from "../db/engine";
+import { assertSurveyWritable } from "../surveys/writable";
 import type { Actor } from "../auth/actor";
 import { recordAudit } from "../audit/record";
 import { assertSurveyPermission } from "../authz/permissions";
@@ -52,6 +54,8 @@ export async function updateQaThresholds(actor: Actor, surveyId: string, input: 
   const next = parseInput(QaThresholdsSchema, input);
   return getDb().transaction(async (trx) => {
     await assertSurveyPermission(actor, surveyId, "qa.update", trx);
+    await assertSurveyWritable(trx, surveyId, "changing its QA thresholds");
+    await serializeOn(trx, `qa-thresholds:${surveyId}`); // the next revision is read, then written
     const current = await readQaThresholds(trx, surveyId);
     const changed = QA_THRESHOLD_KEYS.filter((k) => next[k] !== current.thresholds[k]);
     if (changed.length === 0) return { record: current, changed };
