@@ -6,7 +6,7 @@ import fs from "node:fs";
 import type { Knex } from "knex";
 import type { DatabaseConfig } from "../../env";
 import { createDb } from "../create-db";
-import { dropPostgresTables, isPostgresUniqueViolation, openPostgresReadingsWriter, postgresTransactionLock, resetPostgresSequences, selectPostgresReadingRows, selectPostgresTimeField } from "./postgres";
+import { dropPostgresTables, isPostgresUniqueViolation, openPostgresReadingsWriter, postgresTransactionLock, selectPostgresReadingRows, selectPostgresTimeField } from "./postgres";
 import { isSqliteUniqueViolation, openSqliteReadingsWriter, selectSqliteReadingRows, selectSqliteTimeField } from "./sqlite";
 import { engineOf } from "./engine-of";
 import type { ReadingRow, ReadingsWriter } from "./types";
@@ -14,7 +14,6 @@ import type { ReadingRow, ReadingsWriter } from "./types";
 export { engineOf } from "./engine-of";
 
 export type { EngineName, ReadingRow, ReadingsWriter } from "./types";
-
 
 /** Bulk insert of one log's readings inside `trx`: prepared multi-row inserts on SQLite, COPY on PostgreSQL. */
 export function openReadingsWriter(trx: Knex.Transaction, logId: number): Promise<ReadingsWriter> {
@@ -34,11 +33,6 @@ export function selectTimeField(db: Knex, logId: number, timeMs: Float64Array, f
 /** A unique or primary-key constraint refused the write. */
 export function isUniqueViolation(err: unknown): boolean {
   return isSqliteUniqueViolation(err) || isPostgresUniqueViolation(err);
-}
-
-/** Makes serial ids continue after rows inserted with explicit ids (a no-op on SQLite, whose AUTOINCREMENT follows the data). */
-export async function resetIdSequences(db: Knex, tables: readonly string[]): Promise<void> {
-  if (engineOf(db) === "postgres") await resetPostgresSequences(db, tables);
 }
 
 /**
