@@ -9,7 +9,7 @@ import "server-only";
  */
 import "@/src/lib/zod-jitless";
 import { z } from "zod";
-import { prepareBaseSeries } from "@/src/core/correction";
+import { mergeFallbackBase, prepareBaseSeries } from "@/src/core/correction";
 import { computeBaseQa, type QaWindow } from "@/src/core/qa";
 import { coreSettingsFor } from "../qa-assessment/thresholds";
 import { readQaThresholds } from "../qa-assessment/thresholds-service";
@@ -51,6 +51,19 @@ export type BaseSeriesResponse = {
   fieldNt: (number | null)[];
   totalCount: number;
   datum: { valueNt: number | null; source: string };
+  /**
+   * The second base that fills the first one's gaps, drawn as the correction uses it: shifted by
+   * the level difference between the two sites (see mergeFallbackBase). Null with one base.
+   */
+  fallback: {
+    log: { id: number; originalName: string };
+    t: number[];
+    fieldNt: (number | null)[];
+    totalCount: number;
+    levelShiftNt: number;
+    shiftFrom: "simultaneous" | "medians";
+    samplesUsed: number;
+  } | null;
   windows: QaWindow[];
   qa: {
     samplingIntervalS: number;
@@ -94,7 +107,10 @@ export type CorrectedSeriesResponse = {
 
 export type DaySeriesResponse = BaseSeriesResponse | RoverSeriesResponse | CorrectedSeriesResponse;
 
-type QaCacheEntry = { key: string; value: { t: number[]; fieldNt: (number | null)[]; totalCount: number; windows: QaWindow[]; qa: BaseSeriesResponse["qa"]; medianNt: number; meanNt: number } };
+type QaCacheEntry = {
+  key: string;
+  value: { t: number[]; fieldNt: (number | null)[]; totalCount: number; windows: QaWindow[]; qa: BaseSeriesResponse["qa"]; medianNt: number; meanNt: number; fallback: BaseSeriesResponse["fallback"] };
+};
 const qaCache: QaCacheEntry[] = [];
 
 export async function getDaySeries(actor: Actor, surveyId: string, dayInput: unknown, query: unknown): Promise<DaySeriesResponse> {
@@ -113,11 +129,12 @@ async function baseSeries(actor: Actor, surveyId: string, day: string, maxPoints
   const log = pairing.baseLog;
   const latest = await latestDoneRun(actor, surveyId, day);
   if (!log) {
-    return { kind: "base", day, log: null, t: [], fieldNt: [], totalCount: 0, datum: { valueNt: null, source: "no base log" }, windows: [], qa: null, notes: pairing.notes };
+    return { kind: "base", day, log: null, t: [], fieldNt: [], totalCount: 0, datum: { valueNt: null, source: "no base log" }, fallback: null, windows: [], qa: null, notes: pairing.notes };
   }
   // The shaded windows follow the survey's own QA thresholds, as the day's verdict does.
   const thresholds = await readQaThresholds(db, surveyId);
-  const key = `${log.id}:${day}:${maxPoints}:t${thresholds.revision}`;
+  const fallbackLog = pairing.fallbackBaseLog;
+  const key = `${log.id}:${fallbackLog?.id ?? "-"}:${settings.maxBaseGapS}:${day}:${maxPoints}:t${thresholds.revision}`;
   let entry = qaCache.find((c) => c.key === key)?.value;
   if (!entry) {
     const readings = await loadLogReadings(db, log.id, day);
@@ -125,6 +142,23 @@ async function baseSeries(actor: Actor, surveyId: string, day: string, maxPoints
     const qa = base.timeMs.length >= 5 ? computeBaseQa(base.timeMs, base.fieldNt, coreSettingsFor(thresholds.thresholds, null)) : null;
     const gapS = qa ? qa.gaps.thresholdS : Infinity;
     const thinned = thinWithBreaks(base.timeMs, [base.fieldNt], maxPoints, (i) => (base.timeMs[i] - base.timeMs[i - 1]) / 1000 > gapS, 2);
+    let fallback: BaseSeriesResponse["fallback"] = null;
+    if (fallbackLog) {
+      const fr = await loadLogReadings(db, fallbackLog.id, day);
+      const fb = prepareBaseSeries(fr.timeMs, fr.fieldNt);
+      const merged = mergeFallbackBase(base, fb, settings.maxBaseGapS);
+      const shifted = fb.fieldNt.map((v) => v + merged.levelShiftNt);
+      const ft = thinWithBreaks(fb.timeMs, [shifted], maxPoints, (i) => (fb.timeMs[i] - fb.timeMs[i - 1]) / 1000 > gapS, 2);
+      fallback = {
+        log: { id: fallbackLog.id, originalName: fallbackLog.originalName },
+        t: ft.x,
+        fieldNt: ft.ys[0],
+        totalCount: fb.timeMs.length,
+        levelShiftNt: merged.levelShiftNt,
+        shiftFrom: merged.shiftFrom,
+        samplesUsed: merged.fallbackSampleCount,
+      };
+    }
     entry = {
       t: thinned.x,
       fieldNt: thinned.ys[0],
@@ -147,6 +181,7 @@ async function baseSeries(actor: Actor, surveyId: string, day: string, maxPoints
         : null,
       medianNt: median(base.fieldNt),
       meanNt: mean(base.fieldNt),
+      fallback,
     };
     qaCache.push({ key, value: entry });
     if (qaCache.length > 8) qaCache.shift();
@@ -158,7 +193,19 @@ async function baseSeries(actor: Actor, surveyId: string, day: string, maxPoints
   else if (settings.datumKind === "median") datum = { valueNt: entry.medianNt, source: "settings (median of the day's base)" };
   else if (settings.datumKind === "mean") datum = { valueNt: entry.meanNt, source: "settings (mean of the day's base)" };
   else datum = { valueNt: null, source: "reference field at the base (varies with time)" };
-  return { kind: "base", day, log: { id: log.id, originalName: log.originalName }, t: entry.t, fieldNt: entry.fieldNt, totalCount: entry.totalCount, datum, windows: entry.windows, qa: entry.qa, notes: pairing.notes };
+  return {
+    kind: "base",
+    day,
+    log: { id: log.id, originalName: log.originalName },
+    t: entry.t,
+    fieldNt: entry.fieldNt,
+    totalCount: entry.totalCount,
+    datum,
+    fallback: entry.fallback,
+    windows: entry.windows,
+    qa: entry.qa,
+    notes: pairing.notes,
+  };
 }
 
 function linesOf(timeMs: ArrayLike<number>, lineOf: (i: number) => string, n: number): LineInfo[] {

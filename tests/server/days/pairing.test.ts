@@ -18,6 +18,8 @@ const { importLogStream } = await import("@/src/server/logs/import-service");
 const { getDayPairing, saveDayPairing } = await import("@/src/server/days/service");
 const runs = await import("@/src/server/runs/service");
 const { exportRunCsv } = await import("@/src/server/runs/export");
+const { getDaySeries } = await import("@/src/server/days/series");
+type BaseSeriesResponse = import("@/src/server/days/series").BaseSeriesResponse;
 const { updateProcessingSettings } = await import("@/src/server/processing/service");
 const { DEFAULT_PROCESSING_SETTINGS } = await import("@/src/server/processing/schema");
 const { makeUser, makeSurvey, addMember } = await import("../../support/fixtures");
@@ -67,6 +69,15 @@ describe("second base", () => {
       expect(Number.isNaN(columns.correctedNt[i])).toBe(false);
     }
     expect(inGap).toBeGreaterThan(1000);
+
+    // the drift chart draws the second base as the correction uses it: shifted onto the first
+    const series = (await getDaySeries(processor, sid, DAY, { kind: "base" })) as BaseSeriesResponse;
+    expect(series.fallback?.log.originalName).toBe("second.csv");
+    expect(series.fallback!.levelShiftNt).toBeCloseTo(140, 1);
+    expect(series.fallback!.samplesUsed).toBe((run.summary!.fallback as { samplesUsed: number }).samplesUsed);
+    const inGapPoints = series.fallback!.t.map((t, i) => [t, series.fallback!.fieldNt[i]] as const).filter(([t, f]) => t > gapFrom + 3000 && t < gapTo - 3000 && f !== null);
+    expect(inGapPoints.length).toBeGreaterThan(10);
+    for (const [t, f] of inGapPoints) expect(f!).toBeCloseTo(49_310 + diurnalAt(t), 1);
   }, 60_000);
 
   it("can be switched off by choosing the logs by hand", async () => {

@@ -4,6 +4,7 @@
  */
 export const SERIES = {
   base: "#212b39", // ink-800
+  fallbackBase: "#5b7fb0", // a lighter blue, dotted: the second base where it fills gaps
   raw: "#6b7f99", // ink-400, dashed
   corrected: "#0f665d", // tide-700
   residual: "#c2740a", // flare-600

@@ -8,7 +8,12 @@ import { QA_FILL, SERIES } from "./chart-style";
 
 export function DriftChart({ data, loading, timeZone }: { data: BaseSeriesResponse | null; loading: boolean; timeZone: string }) {
   const rows = data ? data.t.map((t, i) => ({ t, f: data.fieldNt[i] })) : [];
-  const values = data ? (data.fieldNt.filter((v) => v !== null) as number[]) : [];
+  const fallback = data?.fallback ?? null;
+  const fallbackRows = fallback ? fallback.t.map((t, i) => ({ t, g: fallback.fieldNt[i] })) : [];
+  const values = data ? ([...data.fieldNt, ...(fallback?.fieldNt ?? [])].filter((v) => v !== null) as number[]) : [];
+  const allT = [...rows.map((r) => r.t), ...fallbackRows.map((r) => r.t)];
+  const tMin = allT.length ? Math.min(...allT) : 0;
+  const tMax = allT.length ? Math.max(...allT) : 1;
   const min = values.length ? Math.min(...values, data?.datum.valueNt ?? Infinity) : 0;
   const max = values.length ? Math.max(...values, data?.datum.valueNt ?? -Infinity) : 1;
   const pad = Math.max(1, (max - min) * 0.05);
@@ -27,6 +32,12 @@ export function DriftChart({ data, loading, timeZone }: { data: BaseSeriesRespon
         data ? (
           <ul className="flex flex-wrap gap-x-4 gap-y-1">
             <li className="flex items-center gap-1.5"><span className="inline-block h-0.5 w-5" style={{ background: SERIES.base }} /> Base total field ({formatCount(data.totalCount)} readings, {data.t.length} drawn)</li>
+            {fallback ? (
+              <li className="flex items-center gap-1.5">
+                <span className="inline-block w-5 border-t-2 border-dotted" style={{ borderColor: SERIES.fallbackBase }} /> Second base “{fallback.log.originalName}”, shifted{" "}
+                <span className="num">{fallback.levelShiftNt >= 0 ? "+" : "−"}{formatNt(Math.abs(fallback.levelShiftNt), 1)} nT</span> to the first (from {fallback.shiftFrom === "simultaneous" ? "simultaneous readings" : "the two medians"}); fills {formatCount(fallback.samplesUsed)} readings of its gaps
+              </li>
+            ) : null}
             {data.datum.valueNt !== null ? (
               <li className="flex items-center gap-1.5"><span className="inline-block w-5 border-t-2 border-dashed" style={{ borderColor: SERIES.datum }} /> Datum <span className="num">{formatNt(data.datum.valueNt, 1)} nT</span> ({data.datum.source})</li>
             ) : (
@@ -42,14 +53,14 @@ export function DriftChart({ data, loading, timeZone }: { data: BaseSeriesRespon
     >
       <div className="h-64 w-full sm:h-72">
         <ResponsiveContainer width="100%" height="100%">
-          <LineChart data={rows} margin={{ top: 8, right: 12, bottom: 24, left: 12 }}>
+          <LineChart margin={{ top: 8, right: 12, bottom: 24, left: 12 }}>
             <CartesianGrid stroke="#e2e7ee" strokeDasharray="3 3" />
             <XAxis
               dataKey="t"
               type="number"
               scale="time"
-              domain={["dataMin", "dataMax"]}
-              ticks={rows.length > 1 ? localHourTicks(rows[0].t, rows[rows.length - 1].t, timeZone) : undefined}
+              domain={[tMin, tMax]}
+              ticks={allT.length > 1 ? localHourTicks(tMin, tMax, timeZone) : undefined}
               tickFormatter={(t: number) => localTime(t, timeZone)}
               tick={{ fontSize: 11, fill: "#3b4b61" }}
               label={{ value: `Local time (${timeZone})`, position: "insideBottom", offset: -14, fontSize: 11, fill: "#4d6079" }}
@@ -67,9 +78,12 @@ export function DriftChart({ data, loading, timeZone }: { data: BaseSeriesRespon
             {data?.datum.valueNt != null ? <ReferenceLine y={data.datum.valueNt} stroke={SERIES.datum} strokeDasharray="6 4" /> : null}
             <Tooltip
               labelFormatter={(t) => `${localTime(Number(t), timeZone, true)} local · ${utcTime(Number(t))}`}
-              formatter={(v) => [`${formatNt(Number(v), 2)} nT`, "Base"]}
+              formatter={(v, name) => [`${formatNt(Number(v), 2)} nT`, name === "g" ? "Second base (shifted)" : "Base"]}
             />
-            <Line type="linear" dataKey="f" stroke={SERIES.base} strokeWidth={1.3} dot={false} isAnimationActive={false} connectNulls={false} />
+            {fallback ? (
+              <Line data={fallbackRows} type="linear" dataKey="g" stroke={SERIES.fallbackBase} strokeWidth={1.2} strokeDasharray="2 3" dot={false} isAnimationActive={false} connectNulls={false} />
+            ) : null}
+            <Line data={rows} type="linear" dataKey="f" stroke={SERIES.base} strokeWidth={1.3} dot={false} isAnimationActive={false} connectNulls={false} />
           </LineChart>
         </ResponsiveContainer>
       </div>
