@@ -34,8 +34,11 @@ export function DriftChart({ data, loading, timeZone }: { data: BaseSeriesRespon
             <li className="flex items-center gap-1.5"><span className="inline-block h-0.5 w-5" style={{ background: SERIES.base }} /> Base total field ({formatCount(data.totalCount)} readings, {data.t.length} drawn)</li>
             {fallback ? (
               <li className="flex items-center gap-1.5">
-                <span className="inline-block w-5 border-t-2 border-dotted" style={{ borderColor: SERIES.fallbackBase }} /> Second base “{fallback.log.originalName}”, shifted{" "}
-                <span className="num">{fallback.levelShiftNt >= 0 ? "+" : "−"}{formatNt(Math.abs(fallback.levelShiftNt), 1)} nT</span> to the first (from {fallback.shiftFrom === "simultaneous" ? "simultaneous readings" : "the two medians"}); fills {formatCount(fallback.samplesUsed)} readings of its gaps
+                <span className="inline-block w-5 shrink-0 border-t-2 border-dotted" style={{ borderColor: SERIES.fallbackBase }} />
+                <span>
+                  Second base “{fallback.log.originalName}”, shifted <span className="num">{fallback.levelShiftNt >= 0 ? "+" : "−"}{formatNt(Math.abs(fallback.levelShiftNt), 1)} nT</span> onto the first (from{" "}
+                  {fallback.shiftFrom === "simultaneous" ? "simultaneous readings" : "the two medians"}); fills {formatCount(fallback.samplesUsed)} readings of its gaps
+                </span>
               </li>
             ) : null}
             {data.datum.valueNt !== null ? (
