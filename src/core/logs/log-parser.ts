@@ -112,6 +112,8 @@ function readNumber(s: string, decimalComma: boolean): number {
   return NaN;
 }
 
+/** The "no previous text cell" marker of the line/station string cache (no non-blank cell equals it). */
+const NO_BYTES = new Uint8Array(0);
 const LOOKS_LIKE_DATA = /^[\s\d.,:+\-/TZ]+$/;
 const INITIAL_CELLS = 64;
 const LF = 10;
@@ -157,9 +159,9 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
   const warnings: string[] = [];
   let prevTimeMs = NaN;
   let lastLine = "";
-  let lastLineBytes = new Uint8Array(0);
+  let lastLineBytes = NO_BYTES;
   let lastStation = "";
-  let lastStationBytes = new Uint8Array(0);
+  let lastStationBytes = NO_BYTES;
 
   // The current row: cell i is src[cellStart[i], cellEnd[i]) (UTF-8 bytes), padding trimmed.
   let cellStart = new Int32Array(INITIAL_CELLS);
@@ -341,15 +343,19 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
     prevTimeMs = timeMs;
     // text cells: consecutive equal values share one string (a survey line spans thousands of rows)
     if (iLine >= 0) {
-      if (blank(iLine)) lastLine = "";
-      else if (!cellEquals(src, iLine, lastLineBytes)) {
+      if (blank(iLine)) {
+        lastLine = "";
+        lastLineBytes = NO_BYTES; // else the value before the blank would still count as current
+      } else if (!cellEquals(src, iLine, lastLineBytes)) {
         lastLineBytes = src.slice(cellStart[iLine], cellEnd[iLine]);
         lastLine = UTF8_DECODER.decode(lastLineBytes);
       }
     }
     if (iStation >= 0) {
-      if (blank(iStation)) lastStation = "";
-      else if (!cellEquals(src, iStation, lastStationBytes)) {
+      if (blank(iStation)) {
+        lastStation = "";
+        lastStationBytes = NO_BYTES;
+      } else if (!cellEquals(src, iStation, lastStationBytes)) {
         lastStationBytes = src.slice(cellStart[iStation], cellEnd[iStation]);
         lastStation = UTF8_DECODER.decode(lastStationBytes);
       }

@@ -116,6 +116,12 @@ describe("empty and malformed logs", () => {
   it("refuses a file whose first line is data", () => {
     expect(() => parseLogText("2026-05-04T09:00:00Z,48310\n")).toThrow(/looks like data/);
   });
+  it("keeps a line or station name that returns after a blank cell", () => {
+    // synthetic, answer by construction: the name cache must not take the value before the blank as still current
+    const r = parseLogText("time,field,line,station\n2026-05-04T09:00:00Z,48300,L1,B\n2026-05-04T09:00:01Z,48301,,\n2026-05-04T09:00:02Z,48302,L1,B\n");
+    expect(r.readings.line).toEqual(["L1", "", "L1"]);
+    expect(r.readings.station).toEqual(["B", "", "B"]);
+  });
   it("skips comment lines before the header", () => {
     const r = parseLogText("# site: invented\n# units nT\ntime;field\n2026-05-04T09:00:00Z;48310\n");
     expect(r.readings.count).toBe(1);
