@@ -13,12 +13,11 @@
  * Standalone: `node --conditions=react-server --import tsx bench/engines-bench.ts [rows] [repeats]`
  */
 import { spawn, spawnSync } from "node:child_process";
-import { randomUUID } from "node:crypto";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
-import pg from "pg";
+import { createPgDatabase, dropPgDatabase, newPgDatabaseName, pgDatabaseUrl } from "../scripts/lib/pg-database";
 import { writeRoverFile } from "./import-bench";
 
 const HERE = fileURLToPath(import.meta.url);
@@ -50,26 +49,14 @@ function writeBaseFile(file: string): void {
   fs.writeFileSync(file, rows.join("\n") + "\n");
 }
 
-async function onAdmin(adminUrl: string, sql: string): Promise<void> {
-  const c = new pg.Client({ connectionString: adminUrl });
-  await c.connect();
-  try {
-    await c.query(sql);
-  } finally {
-    await c.end();
-  }
-}
-
 async function child(engine: Engine, roverFile: string, baseFile: string, adminUrl: string): Promise<ChildResult> {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), `fieldtide-engines-${engine}-`));
-  const dbName = `fieldtide_bench_${randomUUID().replace(/-/g, "").slice(0, 12)}`;
+  const dbName = newPgDatabaseName("fieldtide_bench");
   process.env.UPLOAD_DIR = path.join(dir, "uploads");
   process.env.DATABASE_FILE = path.join(dir, "bench.sqlite");
   if (engine === "postgres") {
-    await onAdmin(adminUrl, `CREATE DATABASE ${dbName}`);
-    const u = new URL(adminUrl);
-    u.pathname = `/${dbName}`;
-    process.env.DATABASE_URL = u.toString();
+    await createPgDatabase(adminUrl, dbName);
+    process.env.DATABASE_URL = pgDatabaseUrl(adminUrl, dbName);
   } else delete process.env.DATABASE_URL;
   const { getDb, closeDb } = await import("../src/server/db/client");
   const { migrateToLatest } = await import("../src/server/db/migration-source");
@@ -121,7 +108,7 @@ async function child(engine: Engine, roverFile: string, baseFile: string, adminU
     return { engine, rows: rover.log.readingCount, importSeconds, baseImportSeconds, series, peakRssMb: process.resourceUsage().maxRSS / 1024 };
   } finally {
     await closeDb();
-    if (engine === "postgres") await onAdmin(adminUrl, `DROP DATABASE IF EXISTS ${dbName} WITH (FORCE)`);
+    if (engine === "postgres") await dropPgDatabase(adminUrl, dbName);
     fs.rmSync(dir, { recursive: true, force: true });
   }
 }

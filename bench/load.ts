@@ -20,8 +20,8 @@ import path from "node:path";
 import { parseArgs } from "node:util";
 import { spawnSync } from "node:child_process";
 import type { Knex } from "knex";
-import pg from "pg";
 import { freePort, runStep, startBuiltApp } from "../scripts/lib/app-process";
+import { createPgDatabase, dropPgDatabase, newPgDatabaseName, pgDatabaseUrl } from "../scripts/lib/pg-database";
 import { createDb } from "../src/server/db/create-db";
 
 const { values: args } = parseArgs({
@@ -121,20 +121,9 @@ async function freshPostgres(): Promise<{ url: string; drop: () => Promise<void>
     if (r.status !== 0) throw new Error(`could not start PostgreSQL: ${r.stderr.trim()} (or set FIELDTIDE_BENCH_PG_URL)`);
     admin = r.stdout.trim().split("\n").pop()!;
   }
-  const name = `fieldtide_load_${randomUUID().replace(/-/g, "").slice(0, 12)}`;
-  const onAdmin = async (sql: string) => {
-    const c = new pg.Client({ connectionString: admin });
-    await c.connect();
-    try {
-      await c.query(sql);
-    } finally {
-      await c.end();
-    }
-  };
-  await onAdmin(`CREATE DATABASE ${name}`);
-  const u = new URL(admin);
-  u.pathname = `/${name}`;
-  return { url: u.toString(), drop: () => onAdmin(`DROP DATABASE IF EXISTS ${name} WITH (FORCE)`) };
+  const name = newPgDatabaseName("fieldtide_load");
+  await createPgDatabase(admin, name);
+  return { url: pgDatabaseUrl(admin, name), drop: () => dropPgDatabase(admin!, name) };
 }
 
 /** Readings stored per log, and SQLite's integrity_check ("n/a" on PostgreSQL). */

@@ -10,10 +10,9 @@ import fs from "node:fs";
 import http from "node:http";
 import os from "node:os";
 import path from "node:path";
-import { randomUUID } from "node:crypto";
-import pg from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { freePort, runStep, startBuiltApp, type RunningApp, PROJECT_ROOT } from "../../scripts/lib/app-process";
+import { createPgDatabase, dropPgDatabase, newPgDatabaseName, pgDatabaseUrl } from "../../scripts/lib/pg-database";
 import { DEMO_SIGN_INS } from "../../seeds/demo-users";
 import { createDb } from "../../src/server/db/create-db";
 import type { DatabaseConfig } from "../../src/server/env";
@@ -32,17 +31,7 @@ let surveyId = "";
 let database: DatabaseConfig;
 /** PostgreSQL run: the admin URL this file makes (and drops) its own database on. */
 const pgAdminUrl = process.env.FIELDTIDE_TEST_PG_URL;
-const pgName = `fieldtide_crash_${randomUUID().replace(/-/g, "").slice(0, 12)}`;
-
-async function onAdmin(sql: string): Promise<void> {
-  const client = new pg.Client({ connectionString: pgAdminUrl });
-  await client.connect();
-  try {
-    await client.query(sql);
-  } finally {
-    await client.end();
-  }
-}
+const pgName = newPgDatabaseName("fieldtide_crash");
 
 function roverText(rows: number, tag: string): string {
   const out = ["timestamp,latitude,longitude,elevation_m,line,station,tmi_nT"];
@@ -141,10 +130,8 @@ beforeAll(async () => {
   port = await freePort();
   database = { engine: "sqlite", file: path.join(dir, "crash.sqlite") };
   if (pgAdminUrl) {
-    await onAdmin(`CREATE DATABASE ${pgName}`);
-    const u = new URL(pgAdminUrl);
-    u.pathname = `/${pgName}`;
-    database = { engine: "postgres", url: u.toString() };
+    await createPgDatabase(pgAdminUrl, pgName);
+    database = { engine: "postgres", url: pgDatabaseUrl(pgAdminUrl, pgName) };
   }
   env = {
     DATABASE_FILE: path.join(dir, "crash.sqlite"),
@@ -165,7 +152,7 @@ beforeAll(async () => {
 
 afterAll(async () => {
   if (app) await kill();
-  if (pgAdminUrl) await onAdmin(`DROP DATABASE IF EXISTS ${pgName} WITH (FORCE)`);
+  if (pgAdminUrl) await dropPgDatabase(pgAdminUrl, pgName);
   fs.rmSync(dir, { recursive: true, force: true });
 });
 

@@ -4,14 +4,13 @@
  * `npm run test:e2e:pg`), migrates and seeds the demo, starts the app with the local fake SMTP
  * server, and hands the URL and the database to the tests.
  */
-import { randomUUID } from "node:crypto";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import pg from "pg";
 import type { TestProject } from "vitest/node";
 import type { DatabaseConfig } from "../../src/server/env";
 import { freePort, runStep, startBuiltApp, type RunningApp } from "../../scripts/lib/app-process";
+import { createPgDatabase, dropPgDatabase, newPgDatabaseName, pgDatabaseUrl } from "../../scripts/lib/pg-database";
 
 declare module "vitest" {
   export interface ProvidedContext {
@@ -23,28 +22,16 @@ declare module "vitest" {
 
 let app: RunningApp | undefined;
 
-async function onAdmin(adminUrl: string, sql: string): Promise<void> {
-  const client = new pg.Client({ connectionString: adminUrl });
-  await client.connect();
-  try {
-    await client.query(sql);
-  } finally {
-    await client.end();
-  }
-}
-
 export default async function setup(project: TestProject) {
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), "fieldtide-e2e-"));
   const port = await freePort();
   const smtpPort = await freePort();
   const adminUrl = process.env.FIELDTIDE_TEST_PG_URL;
-  const pgName = `fieldtide_e2e_${randomUUID().replace(/-/g, "").slice(0, 12)}`;
+  const pgName = newPgDatabaseName("fieldtide_e2e");
   let database: DatabaseConfig = { engine: "sqlite", file: path.join(dataDir, "e2e.sqlite") };
   if (adminUrl) {
-    await onAdmin(adminUrl, `CREATE DATABASE ${pgName}`);
-    const u = new URL(adminUrl);
-    u.pathname = `/${pgName}`;
-    database = { engine: "postgres", url: u.toString() };
+    await createPgDatabase(adminUrl, pgName);
+    database = { engine: "postgres", url: pgDatabaseUrl(adminUrl, pgName) };
   }
   const env = {
     DATABASE_FILE: path.join(dataDir, "e2e.sqlite"),
@@ -65,7 +52,7 @@ export default async function setup(project: TestProject) {
   project.provide("database", database);
   return async () => {
     await app?.stop();
-    if (adminUrl) await onAdmin(adminUrl, `DROP DATABASE IF EXISTS ${pgName} WITH (FORCE)`);
+    if (adminUrl) await dropPgDatabase(adminUrl, pgName);
     fs.rmSync(dataDir, { recursive: true, force: true });
   };
 }

@@ -5,38 +5,25 @@
  * dropped afterwards.
  * Call setupTestDatabase() at the top of a test file, BEFORE anything reads the environment.
  */
-import { randomUUID } from "node:crypto";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import pg from "pg";
 import { afterAll, beforeAll } from "vitest";
+import { createPgDatabase, dropPgDatabase, newPgDatabaseName, pgDatabaseUrl } from "../../scripts/lib/pg-database";
 
 export type TestDatabase = { dir: string; file: string; engine: "sqlite" | "postgres"; url: string | null };
 
 /** The integration suite is running against PostgreSQL (`npm run test:pg`). */
 export const TEST_ON_POSTGRES = Boolean(process.env.FIELDTIDE_TEST_PG_URL);
 
-async function onAdmin(adminUrl: string, sql: string): Promise<void> {
-  const client = new pg.Client({ connectionString: adminUrl });
-  await client.connect();
-  try {
-    await client.query(sql);
-  } finally {
-    await client.end();
-  }
-}
-
 export function setupTestDatabase(extraEnv: Record<string, string> = {}): TestDatabase {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), "fieldtide-test-"));
   const file = path.join(dir, "test.sqlite");
   const adminUrl = process.env.FIELDTIDE_TEST_PG_URL;
-  const dbName = `fieldtide_test_${randomUUID().replace(/-/g, "").slice(0, 16)}`;
+  const dbName = newPgDatabaseName("fieldtide_test");
   let url: string | null = null;
   if (adminUrl) {
-    const u = new URL(adminUrl);
-    u.pathname = `/${dbName}`;
-    url = u.toString();
+    url = pgDatabaseUrl(adminUrl, dbName);
     process.env.DATABASE_URL = url;
   } else {
     delete process.env.DATABASE_URL;
@@ -46,7 +33,7 @@ export function setupTestDatabase(extraEnv: Record<string, string> = {}): TestDa
   for (const [k, v] of Object.entries(extraEnv)) process.env[k] = v;
 
   beforeAll(async () => {
-    if (adminUrl) await onAdmin(adminUrl, `CREATE DATABASE ${dbName}`);
+    if (adminUrl) await createPgDatabase(adminUrl, dbName);
     const { getDb } = await import("@/src/server/db/client");
     const { migrateToLatest } = await import("@/src/server/db/migration-source");
     await migrateToLatest(getDb());
@@ -54,7 +41,7 @@ export function setupTestDatabase(extraEnv: Record<string, string> = {}): TestDa
   afterAll(async () => {
     const { closeDb } = await import("@/src/server/db/client");
     await closeDb();
-    if (adminUrl) await onAdmin(adminUrl, `DROP DATABASE IF EXISTS ${dbName} WITH (FORCE)`);
+    if (adminUrl) await dropPgDatabase(adminUrl, dbName);
     fs.rmSync(dir, { recursive: true, force: true });
   });
   return { dir, file, engine: adminUrl ? "postgres" : "sqlite", url };
