@@ -36,14 +36,14 @@ describe("an archived survey", () => {
     const settings = (await getProcessingSettings(lead, surveyId)).settings;
     const thresholds = (await getQaThresholds(lead, surveyId)).thresholds;
     const firstKey = Object.keys(thresholds)[0] as keyof typeof thresholds;
-    const attempts: [string, Promise<unknown>][] = [
-      ["settings", updateProcessingSettings(lead, surveyId, { ...settings, datumKind: "mean" })],
-      ["thresholds", updateQaThresholds(lead, surveyId, { ...thresholds, [firstKey]: Number(thresholds[firstKey]) + 1 })],
-      ["kp", saveKpValues(lead, surveyId, { text: "start,kp\n2026-03-07T06:00Z,3o" })],
-      ["pairing", saveDayPairing(lead, surveyId, "2026-03-07", { method: "default" })],
+    const attempts: [string, () => Promise<unknown>][] = [
+      ["settings", () => updateProcessingSettings(lead, surveyId, { ...settings, datumKind: "mean" })],
+      ["thresholds", () => updateQaThresholds(lead, surveyId, { ...thresholds, [firstKey]: Number(thresholds[firstKey]) + 1 })],
+      ["kp", () => saveKpValues(lead, surveyId, { text: "start,kp\n2026-03-07T06:00Z,3o" })],
+      ["pairing", () => saveDayPairing(lead, surveyId, "2026-03-07", { method: "default" })],
     ];
     for (const [what, attempt] of attempts) {
-      const err = await attempt.catch((e: unknown) => e);
+      const err = await attempt().catch((e: unknown) => e);
       expect(err, what).toBeInstanceOf(ConflictError);
       expect((err as Error).message, what).toMatch(/archived: restore it before/);
     }

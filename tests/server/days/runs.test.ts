@@ -20,6 +20,7 @@ const { NotFoundError } = await import("@/src/server/errors");
 const { DEFAULT_PROCESSING_SETTINGS } = await import("@/src/server/processing/schema");
 const { listDays, getDayPairing } = await import("@/src/server/days/service");
 const runs = await import("@/src/server/runs/service");
+const { PROCESS_ID } = await import("@/src/server/runs/process-id");
 const { exportRunCsv, exportRunGeoJson } = await import("@/src/server/runs/export");
 const { getDb } = await import("@/src/server/db/client");
 const { ValidationError, ConflictError } = await import("@/src/server/errors");
@@ -187,9 +188,20 @@ describe("correction runs", () => {
   }, 60_000);
 
   it("refuses a second run while one of the day is in progress", async () => {
-    const first = runs.startRun(processor, surveyId, DAY);
-    const queued = await first;
-    await expect(runs.startRun(processor, surveyId, DAY)).rejects.toBeInstanceOf(ConflictError);
-    await runs.waitForRun(processor, surveyId, DAY, queued.number);
+    // a run this server process is running (a real one can finish before the second request on
+    // PostgreSQL, where the two do not queue on one connection): the row as startRun leaves it
+    const last = Number((await getDb()("correction_runs").where({ survey_id: surveyId, day: DAY }).max({ n: "number" }).first())?.n) || 0;
+    const [{ id }] = (await getDb()("correction_runs").insert({
+      survey_id: surveyId, day: DAY, number: last + 1, status: "running", progress: 0.3, parameters: "{}", inputs: "[]",
+      process_id: PROCESS_ID, created_at: new Date().toISOString(),
+    }).returning("id")) as { id: number }[];
+    try {
+      const err = await runs.startRun(processor, surveyId, DAY).catch((e: unknown) => e);
+      expect(err).toBeInstanceOf(ConflictError);
+      expect((err as Error).message).toMatch(new RegExp(`Run ${last + 1} of this day is still in progress`));
+      expect(Number((await getDb()("correction_runs").where({ survey_id: surveyId, day: DAY }).count({ n: "*" }).first())?.n)).toBe(last + 1);
+    } finally {
+      await getDb()("correction_runs").where({ id }).delete();
+    }
   }, 60_000);
 });
