@@ -33,23 +33,58 @@ function copyText(value: string): string {
 
 const copyNumber = (v: number | null) => (v === null ? "\\N" : String(v));
 
-export async function openPostgresReadingsWriter(trx: Knex.Transaction, logId: number): Promise<ReadingsWriter> {
+const quoteIdent = (name: string) => `"${name.replace(/"/g, '""')}"`;
+
+/** One COPY … FROM STDIN on the transaction's own connection, fed text in COPY's text format. */
+interface CopyIn {
+  /** Sends rows (lines ending in \n); waits while the socket is full. Rejects once the COPY has failed. */
+  write(text: string): Promise<void>;
+  /** Ends the COPY; resolves when the server has taken every row. */
+  end(): Promise<void>;
+  /** Abandons the COPY (CopyFail); the caller's transaction is rolled back next. */
+  abort(reason: Error): Promise<void>;
+}
+
+async function openCopyIn(trx: Knex.Transaction, table: string, columns: readonly string[]): Promise<CopyIn> {
   // A transaction's client hands out the transaction's own connection, so COPY is part of it.
   const conn = await (trx.client as unknown as KnexPool).acquireConnection();
-  const stream = conn.query(
-    copyFrom("COPY log_readings (log_id, time_ms, field_nt, latitude_deg, longitude_deg, height_m, line, station, source_line, local_day) FROM STDIN"),
-  );
+  const stream = conn.query(copyFrom(`COPY ${quoteIdent(table)} (${columns.map(quoteIdent).join(", ")}) FROM STDIN`));
   let failure: Error | null = null;
-  stream.on("error", (err: Error) => {
-    failure ??= err;
+  const failed = new Promise<never>((_, reject) => {
+    stream.on("error", (err: Error) => {
+      failure ??= err;
+      reject(failure);
+    });
   });
+  failed.catch(() => undefined); // read through `failure` and the races below, never left unhandled
+  return {
+    async write(text) {
+      if (failure) throw failure;
+      if (!stream.write(text)) await Promise.race([once(stream, "drain"), failed]);
+    },
+    async end() {
+      if (failure) throw failure;
+      const finished = once(stream, "finish");
+      stream.end();
+      await Promise.race([finished, failed]);
+    },
+    async abort(reason) {
+      // destroying a COPY FROM stream sends CopyFail: the server ends the COPY with an error
+      if (!stream.destroyed) {
+        const closed = once(stream, "close").catch(() => undefined);
+        stream.destroy(reason);
+        await closed;
+      }
+    },
+  };
+}
+
+const READING_COPY_COLUMNS = ["log_id", "time_ms", "field_nt", "latitude_deg", "longitude_deg", "height_m", "line", "station", "source_line", "local_day"];
+
+export async function openPostgresReadingsWriter(trx: Knex.Transaction, logId: number): Promise<ReadingsWriter> {
+  const copy = await openCopyIn(trx, "log_readings", READING_COPY_COLUMNS);
   const prefix = `${logId}\t`;
   let pending = "";
-  const write = async (text: string) => {
-    if (failure) throw failure;
-    if (!stream.write(text)) await Promise.race([once(stream, "drain"), once(stream, "error")]);
-    if (failure) throw failure;
-  };
   return {
     add(timeMs, fieldNt, latitudeDeg, longitudeDeg, heightM, line, station, sourceLine, localDay) {
       pending +=
@@ -77,24 +112,16 @@ export async function openPostgresReadingsWriter(trx: Knex.Transaction, logId: n
       if (pending.length < COPY_CHUNK_CHARS) return;
       const text = pending;
       pending = "";
-      await write(text);
+      await copy.write(text);
     },
     async finish() {
-      if (pending.length > 0) await write(pending);
+      if (pending.length > 0) await copy.write(pending);
       pending = "";
-      const done = Promise.race([once(stream, "finish"), once(stream, "error").then(([err]) => Promise.reject(err))]);
-      stream.end();
-      await done;
+      await copy.end();
     },
     async abort(reason) {
       pending = "";
-      // destroying a COPY FROM stream sends CopyFail: the server ends the COPY with an error and
-      // the transaction is left for the caller to roll back
-      if (!stream.destroyed) {
-        const closed = once(stream, "close").catch(() => undefined);
-        stream.destroy(reason);
-        await closed;
-      }
+      await copy.abort(reason);
     },
   };
 }
@@ -165,18 +192,20 @@ function copyCell(value: unknown): string {
 /** Inserts rows (values in `columns` order) into `table` with one COPY on the transaction's connection. */
 export async function copyRowsIntoPostgres(trx: Knex.Transaction, table: string, columns: string[], rows: unknown[][]): Promise<void> {
   if (rows.length === 0) return;
-  const conn = await (trx.client as unknown as KnexPool).acquireConnection();
-  const quote = (name: string) => `"${name.replace(/"/g, '""')}"`;
-  const stream = conn.query(copyFrom(`COPY ${quote(table)} (${columns.map(quote).join(", ")}) FROM STDIN`));
-  const done = Promise.race([once(stream, "finish"), once(stream, "error").then(([err]) => Promise.reject(err))]);
-  let text = "";
-  for (const row of rows) {
-    text += row.map(copyCell).join("\t") + "\n";
-    if (text.length >= COPY_CHUNK_CHARS) {
-      if (!stream.write(text)) await Promise.race([once(stream, "drain"), done]);
-      text = "";
+  const copy = await openCopyIn(trx, table, columns);
+  try {
+    let text = "";
+    for (const row of rows) {
+      text += row.map(copyCell).join("\t") + "\n";
+      if (text.length >= COPY_CHUNK_CHARS) {
+        await copy.write(text);
+        text = "";
+      }
     }
+    if (text.length > 0) await copy.write(text);
+    await copy.end();
+  } catch (err) {
+    await copy.abort(err as Error);
+    throw err;
   }
-  stream.end(text);
-  await done;
 }
