@@ -18,6 +18,7 @@ import os from "node:os";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { createPgDatabase, dropPgDatabase, newPgDatabaseName, pgDatabaseUrl } from "../scripts/lib/pg-database";
+import { addBenchSurvey, BENCH_SURVEY_ID } from "./bench-survey";
 import { writeRoverFile } from "./import-bench";
 
 const HERE = fileURLToPath(import.meta.url);
@@ -65,11 +66,7 @@ async function child(engine: Engine, roverFile: string, baseFile: string, adminU
   try {
     const db = getDb();
     await migrateToLatest(db);
-    const now = new Date().toISOString();
-    await db("users").insert({ id: "bench-user", email: "bench@fieldtide.invalid", name: "Bench", password_hash: "x", is_admin: 0, created_at: now, updated_at: now });
-    await db("surveys").insert({ id: "bench-survey", code: "BENCH", name: "Bench", time_zone: "Europe/London", created_at: now, updated_at: now });
-    await db("survey_members").insert({ survey_id: "bench-survey", user_id: "bench-user", role: "processor", joined_at: now });
-    const actor = { userId: "bench-user", email: "bench@fieldtide.invalid", name: "Bench", isAdmin: false };
+    const actor = await addBenchSurvey(db, "processor");
     const fields = (kind: string, name: string) => ({
       kind,
       fileName: name,
@@ -79,10 +76,10 @@ async function child(engine: Engine, roverFile: string, baseFile: string, adminU
     });
 
     let t0 = performance.now();
-    await importLogStream(actor, "bench-survey", fs.createReadStream(baseFile, { highWaterMark: 1 << 20 }), fields("base", "base.csv"));
+    await importLogStream(actor, BENCH_SURVEY_ID, fs.createReadStream(baseFile, { highWaterMark: 1 << 20 }), fields("base", "base.csv"));
     const baseImportSeconds = (performance.now() - t0) / 1000;
     t0 = performance.now();
-    const rover = await importLogStream(actor, "bench-survey", fs.createReadStream(roverFile, { highWaterMark: 1 << 20 }), fields("rover", "rover.csv"));
+    const rover = await importLogStream(actor, BENCH_SURVEY_ID, fs.createReadStream(roverFile, { highWaterMark: 1 << 20 }), fields("rover", "rover.csv"));
     const importSeconds = (performance.now() - t0) / 1000;
 
     const cache = (globalThis as { __fieldtideReadingsCache?: unknown[] }).__fieldtideReadingsCache;
@@ -93,14 +90,14 @@ async function child(engine: Engine, roverFile: string, baseFile: string, adminU
       for (let i = 0; i < SERIES_CALLS; i++) {
         if (cache) cache.length = 0;
         const t = performance.now();
-        const r = (await getDaySeries(actor, "bench-survey", DAY, { kind, maxPoints: String(2000 + i) })) as { t?: number[] };
+        const r = (await getDaySeries(actor, BENCH_SURVEY_ID, DAY, { kind, maxPoints: String(2000 + i) })) as { t?: number[] };
         uncached.push(performance.now() - t);
         points = r.t?.length ?? 0;
       }
       const cached: number[] = [];
       for (let i = 0; i < SERIES_CALLS; i++) {
         const t = performance.now();
-        await getDaySeries(actor, "bench-survey", DAY, { kind, maxPoints: "2000" });
+        await getDaySeries(actor, BENCH_SURVEY_ID, DAY, { kind, maxPoints: "2000" });
         cached.push(performance.now() - t);
       }
       series[kind] = { uncachedMs: median(uncached), cachedMs: median(cached.slice(1)), points };

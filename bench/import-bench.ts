@@ -18,6 +18,7 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
+import { addBenchSurvey, BENCH_SURVEY_ID } from "./bench-survey";
 
 export interface BenchLine {
   name: string;
@@ -179,13 +180,9 @@ async function childService(file: string): Promise<ChildResult> {
   const { importLogStream } = await import("../src/server/logs/import-service");
   const db = getDb();
   await migrateToLatest(db);
-  const now = new Date().toISOString();
-  await db("users").insert({ id: "bench-user", email: "bench@fieldtide.invalid", name: "Bench", password_hash: "x", is_admin: 0, created_at: now, updated_at: now });
-  await db("surveys").insert({ id: "bench-survey", code: "BENCH", name: "Bench", time_zone: "Europe/London", created_at: now, updated_at: now });
-  await db("survey_members").insert({ survey_id: "bench-survey", user_id: "bench-user", role: "crew", joined_at: now });
-  const actor = { userId: "bench-user", email: "bench@fieldtide.invalid", name: "Bench", isAdmin: false };
+  const actor = await addBenchSurvey(db, "crew");
   const t0 = performance.now();
-  const result = await importLogStream(actor, "bench-survey", fs.createReadStream(file, { highWaterMark: 1024 * 1024 }), {
+  const result = await importLogStream(actor, BENCH_SURVEY_ID, fs.createReadStream(file, { highWaterMark: 1024 * 1024 }), {
     kind: "rover",
     fileName: "rover.csv",
     instrument: "BENCH-ROVER",
