@@ -9,6 +9,7 @@ import { randomUUID } from "node:crypto";
 import type { Knex } from "knex";
 import "@/src/lib/zod-jitless";
 import { z } from "zod";
+import { refuseIfArchived } from "../surveys/writable";
 import type { Actor } from "../auth/actor";
 import { hashPassword, verifyPassword } from "../auth/password";
 import { EmailSchema, NewPasswordSchema } from "../auth/schema";
@@ -58,7 +59,7 @@ export async function inviteToSurvey(actor: Actor, surveyId: string, input: unkn
   const { email, role } = parseInput(InvitationInputSchema, input);
   const db = getDb();
   const survey = await db("surveys").select("code", "name", "archived_at").where({ id: surveyId }).first();
-  if (survey.archived_at) throw new ConflictError("This survey is archived. Restore it before inviting anyone.");
+  refuseIfArchived(survey, "inviting anyone");
   const member = await db("survey_members")
     .join("users", "users.id", "survey_members.user_id")
     .where({ "survey_members.survey_id": surveyId, "users.email": email })

@@ -9,6 +9,7 @@ import "server-only";
 import type { Knex } from "knex";
 import "@/src/lib/zod-jitless";
 import { z } from "zod";
+import { refuseIfArchived } from "../surveys/writable";
 import type { Actor } from "../auth/actor";
 import { recordAudit } from "../audit/record";
 import { assertSurveyPermission, roleAllows, type SurveyRole } from "../authz/permissions";
@@ -138,7 +139,7 @@ export async function submitDayForReview(actor: Actor, surveyId: string, dayInpu
   const day = summary.day;
   const db = getDb();
   const survey = await surveyFacts(db, surveyId);
-  if (survey.archived_at) throw new ConflictError("This survey is archived: restore it before submitting days.");
+  refuseIfArchived(survey, "submitting days");
   const assessment = await assessDay(db, surveyId, summary);
   await db.transaction(async (trx) => {
     await assertSurveyPermission(actor, surveyId, "day.submit", trx);
@@ -180,7 +181,7 @@ export async function decideDay(actor: Actor, surveyId: string, dayInput: unknow
   const day = summary.day;
   const db = getDb();
   const survey = await surveyFacts(db, surveyId);
-  if (survey.archived_at) throw new ConflictError("This survey is archived: restore it before deciding days.");
+  refuseIfArchived(survey, "deciding days");
   const scope = v.decision === "resurvey" ? (v.scope ?? "day") : null;
   const lines = scope === "lines" ? v.lines : [];
   if (lines.length > 0) {

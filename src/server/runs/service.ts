@@ -9,6 +9,7 @@ import "server-only";
  * queued or running is marked failed when runs are next read.
  */
 import type { Knex } from "knex";
+import { refuseIfArchived } from "../surveys/writable";
 import type { Actor } from "../auth/actor";
 import { assertSurveyPermission } from "../authz/permissions";
 import { getDb } from "../db/client";
@@ -103,7 +104,7 @@ export async function startRun(actor: Actor, surveyId: string, dayInput: unknown
   const db = getDb();
   await markInterruptedRuns(db);
   const survey = await db("surveys").where({ id: surveyId }).first("time_zone", "archived_at");
-  if (survey.archived_at) throw new ConflictError("This survey is archived: restore it before running corrections.");
+  refuseIfArchived(survey, "running corrections");
   const { settings, revision } = await readSettings(db, surveyId);
   const pairing = await resolvePairing(db, surveyId, day, settings);
   let parameters: RunParameters;
