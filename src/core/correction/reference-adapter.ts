@@ -10,12 +10,16 @@ import type { BasePosition, ReferenceFieldEvaluator } from "./reference-evaluato
 function finiteExtent(values: ArrayLike<number> | null | undefined, extra: readonly number[] = []): [number, number] | null {
   let lo = Infinity;
   let hi = -Infinity;
-  const take = (v: number) => {
+  const n = values ? values.length : 0;
+  for (let i = 0; i < n; i++) {
+    const v = values![i]; // NaN never wins a comparison
     if (v < lo) lo = v;
     if (v > hi) hi = v;
-  };
-  if (values) for (let i = 0; i < values.length; i++) take(values[i]); // NaN never wins a comparison
-  for (const v of extra) take(v);
+  }
+  for (const v of extra) {
+    if (v < lo) lo = v;
+    if (v > hi) hi = v;
+  }
   return lo <= hi ? [lo, hi] : null;
 }
 
