@@ -139,11 +139,22 @@ describe("correct", () => {
   });
 });
 
+/** Each [value, decimals] through CsvByteWriter#fixed, one per line, small buffers so handOff runs often. */
+async function fixedLines(values: Array<[number, number]>): Promise<string[]> {
+  const { CsvByteWriter } = await import("@/src/core/csv");
+  const chunks: Buffer[] = [];
+  const w = new CsvByteWriter((b) => void chunks.push(Buffer.from(b)), 1 << 16);
+  for (const [v, d] of values) {
+    w.fixed(v, d);
+    w.byte(10);
+    if (w.nearlyFull) await w.handOff();
+  }
+  await w.finish();
+  return Buffer.concat(chunks).toString("latin1").split("\n").slice(0, -1);
+}
+
 describe("CSV number output", () => {
   it("prints fixed decimals like Number#toFixed for values read from 2-decimal logs", async () => {
-    const { CsvByteWriter } = await import("@/src/core/csv");
-    const chunks: Buffer[] = [];
-    const w = new CsvByteWriter((b) => void chunks.push(Buffer.from(b)), 1 << 16);
     const values: Array<[number, number]> = [];
     let seed = 3;
     const rnd = () => ((seed = (seed * 1_103_515_245 + 12_345) % 2_147_483_648) / 2_147_483_648);
@@ -152,15 +163,22 @@ describe("CSV number output", () => {
       values.push([v, 3], [v / 3, 3], [(rnd() - 0.5) * 360, 7], [rnd() * 1e-3, 3], [-rnd() * 1e-4, 3]);
     }
     values.push([0, 3], [-0, 3], [-0.0004, 3], [48397.5, 3], [NaN, 3], [123456789.125, 3], [-1e12, 7]);
-    for (const [v, d] of values) {
-      w.fixed(v, d);
-      w.byte(10);
-      if (w.nearlyFull) await w.handOff();
-    }
-    await w.finish();
-    const lines = Buffer.concat(chunks).toString("latin1").split("\n").slice(0, -1);
+    const lines = await fixedLines(values);
     const expected = values.map(([v, d]) => (Number.isNaN(v) ? "" : v.toFixed(d).replace(/^-(0\.0*)$/, "$1")));
     expect(lines).toEqual(expected);
+  });
+
+  it("prints every digit-group length and decimals 0–9 like Number#toFixed, up to and past the 32-bit fast range", async () => {
+    // reference: Number#toFixed (ECMA-262 §21.1.3.3), exact for these values: m + 0.25 and m are
+    // exact in binary and never lie on a rounding tie at these decimals
+    const magnitudes = [0, 1, 9, 10, 99, 100, 999, 1000, 9999, 10_000, 99_999, 100_000, 999_999, 1e6, 9_999_999, 1e7, 99_999_999, 1e8, 999_999_999, 1e9, 2_147_483_647, 1e12];
+    const values: Array<[number, number]> = [];
+    for (let d = 0; d <= 9; d++) {
+      const fastLimit = Math.floor(2_147_483_647 / 10 ** d);
+      for (const m of [...magnitudes, fastLimit - 1, fastLimit, fastLimit + 1]) for (const x of [m, m + 0.25, -m, -(m + 0.25)]) values.push([x, d]);
+    }
+    const lines = await fixedLines(values);
+    expect(lines).toEqual(values.map(([v, d]) => v.toFixed(d).replace(/^-(0\.?0*)$/, "$1")));
   });
 });
 
