@@ -132,23 +132,31 @@ export function createCorrector(base: BaseSeries, reference: ReferenceFieldEvalu
       flags: new Uint8Array(n),
     };
     const { timeMs, fieldNt } = rover;
+    // columns in locals: the loop below runs per reading
+    const { baseNt, diurnalNt, correctedNt, referenceNt, residualNt, flags: flagsOut } = out;
     const lat = rover.latDeg ?? null;
     const lon = rover.lonDeg ?? null;
     const hgt = rover.heightM ?? null;
+    // running state in locals, written back after the loop: a double kept in a closure variable is
+    // boxed on every store (an allocation per reading in V8)
+    let lastTimeMs = prevTimeMs;
+    let correctedSoFar = correctedCount;
+    let residuals = residualCount;
+    let defaulted = heightDefaulted;
     for (let i = 0; i < n; i++) {
       const t = timeMs[i];
       let flags = 0;
-      if (duplicate ? duplicate[i] : t === prevTimeMs) flags |= CorrectionFlag.duplicateTime;
-      if (!duplicate && t === prevTimeMs) {
+      if (duplicate ? duplicate[i] : t === lastTimeMs) flags |= CorrectionFlag.duplicateTime;
+      if (!duplicate && t === lastTimeMs) {
         // mark both members of an adjacent pair (the first may sit in the previous batch)
-        const earlier = i > 0 ? out.flags : prevFlags!;
+        const earlier = i > 0 ? flagsOut : prevFlags!;
         const k = i > 0 ? i - 1 : prevIndex;
         if (!(earlier[k] & CorrectionFlag.duplicateTime)) {
           earlier[k] |= CorrectionFlag.duplicateTime;
           flagCounts.duplicate_time++;
         }
       }
-      prevTimeMs = t;
+      lastTimeMs = t;
       if (occupations && occupations.has(offset + i)) flags |= CorrectionFlag.baseOccupation;
 
       // reference at the reading
@@ -163,7 +171,7 @@ export function createCorrector(base: BaseSeries, reference: ReferenceFieldEvalu
           let h = hgt ? hgt[i] : NaN;
           if (h !== h) {
             h = defaultHeightM;
-            heightDefaulted++;
+            defaulted++;
           }
           refNt = reference.totalNt(la, lo, h, t);
         }
@@ -183,14 +191,14 @@ export function createCorrector(base: BaseSeries, reference: ReferenceFieldEvalu
       }
       const corrected = fieldNt[i] - instrumentOffsetNt - diurnal;
       const residual = corrected - refNt;
-      out.baseNt[i] = b;
-      out.diurnalNt[i] = diurnal;
-      out.correctedNt[i] = corrected;
-      out.referenceNt[i] = refNt;
-      out.residualNt[i] = residual;
-      out.flags[i] = flags;
-      if (corrected === corrected) correctedCount++;
-      if (residual === residual) residualCount++;
+      baseNt[i] = b;
+      diurnalNt[i] = diurnal;
+      correctedNt[i] = corrected;
+      referenceNt[i] = refNt;
+      residualNt[i] = residual;
+      flagsOut[i] = flags;
+      if (corrected === corrected) correctedSoFar++;
+      if (residual === residual) residuals++;
       if (flags) {
         if (flags & CorrectionFlag.noBaseCover) flagCounts.no_base_cover++;
         if (flags & CorrectionFlag.baseGap) flagCounts.base_gap++;
@@ -200,6 +208,10 @@ export function createCorrector(base: BaseSeries, reference: ReferenceFieldEvalu
         if (flags & CorrectionFlag.baseOccupation) flagCounts.base_occupation++;
       }
     }
+    prevTimeMs = lastTimeMs;
+    correctedCount = correctedSoFar;
+    residualCount = residuals;
+    heightDefaulted = defaulted;
     if (n > 0) {
       prevFlags = out.flags;
       prevIndex = n - 1;
