@@ -7,6 +7,8 @@ export interface BenchContext {
 
 export interface BenchCase {
   name: string;
+  /** Untimed set-up in the same process just before `run` (e.g. remove a previous run's output). */
+  prepare?(ctx: BenchContext): Promise<void> | void;
   /** The timed work. Return the row count, or leave it to `rows`. */
   run(ctx: BenchContext): Promise<{ rows: number } | void>;
   /** Row count measured after timing and after peak memory is read (so it costs neither). */

@@ -8,6 +8,7 @@ async function main(): Promise<void> {
   const ctx = JSON.parse(ctxJson) as BenchContext;
   const originalWrite = process.stderr.write.bind(process.stderr);
   process.stderr.write = (() => true) as typeof process.stderr.write; // the CLI's summary lines are not bench output
+  await mod.default.prepare?.(ctx);
   const start = process.hrtime.bigint();
   const cpuStart = process.cpuUsage();
   const result = await mod.default.run(ctx);
