@@ -45,7 +45,7 @@ function diurnalModel(day: DemoDay): (timeMs: number) => number {
     if (day.disturbance === "storm" && timeMs >= stormOnsetMs) {
       const sinceS = (timeMs - stormOnsetMs) / 1000;
       const commencementNt = 38 * (1 - Math.exp(-sinceS / 90)) * Math.exp(-sinceS / 2400);
-      const mainPhaseNt = -190 * (1 - Math.exp(-sinceS / 5400));
+      const mainPhaseNt = -330 * (1 - Math.exp(-sinceS / 5400)); // a strong storm: the day ranges ~400 nT
       const minute = Math.floor(sinceS / 60);
       const frac = sinceS / 60 - minute;
       const fluctuation = (walk[minute % walk.length] ?? 0) * (1 - frac) + (walk[(minute + 1) % walk.length] ?? 0) * frac;

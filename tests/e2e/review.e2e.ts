@@ -118,7 +118,7 @@ describe("QA review of a storm day", () => {
     const panel = pp.getByTestId("review-panel");
     await panel.getByText("In processing").waitFor();
     const header = await pp.locator("main").innerText();
-    expect(header).toMatch(/Suggested: (storm|disturbed)/);
+    expect(header).toMatch(/Suggested: storm/);
     await panel.getByLabel(/Note for the reviewer/).fill("Base shows the afternoon storm; please judge the lines after 11:40.");
     await panel.getByRole("button", { name: "Submit for review" }).click();
     await panel.getByText(new RegExp(`Submitted for review\\. Mailed ${newReviewer.email.replace(/\./g, "\\.")}`)).waitFor();
@@ -177,7 +177,7 @@ describe("QA review of a storm day", () => {
     const history = cp.getByTestId("review-history");
     await history.waitFor();
     const steps = await history.getByRole("listitem").allInnerTexts();
-    expect(steps.some((s) => /^Suggested verdict (storm|disturbed)/.test(s))).toBe(true);
+    expect(steps.some((s) => /^Suggested verdict storm/.test(s))).toBe(true);
     const submitted = steps.findIndex((s) => s.startsWith("Submitted for review") && s.includes("Priya Lantern"));
     const sentBack = steps.findIndex((s) => s.startsWith("Sent back: re-survey needed: lines 182, 183") && s.includes(COMMENT) && s.includes("Ines Calder"));
     expect(submitted).toBeGreaterThanOrEqual(0);
@@ -200,7 +200,7 @@ describe("QA review of a storm day", () => {
     await rp.goto(`/surveys/${surveyId}/calendar`);
     await rp.getByTestId(`calendar-${DAY.date}`).getByText("Re-survey needed").waitFor();
     const cell = await rp.getByTestId(`calendar-${DAY.date}`).innerText();
-    expect(cell).toMatch(/QA: (storm|disturbed)/);
+    expect(cell).toMatch(/QA: storm/);
     expect(cell, "worst metric with its limit").toMatch(/(range|chord|change|noise|gap|spikes|Kp) [\d\u202f.]+( nT| s)? \(limit [\d.]+/);
     await screenshot(rp, "review-calendar");
     await rp.close();
