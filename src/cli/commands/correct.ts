@@ -5,7 +5,8 @@
  * rover's own reoccupations of a base point), then subtraction of the main field (IGRF-14 by
  * default). One output row per readable rover row, in input order, columns
  *   time,lat,lon,height_m,line,raw_nT,base_nT,diurnal_nT,corrected_nT,reference_nT,residual_nT,flags
- * written by src/core/correction/corrected-csv.ts (the server's run export uses the same rows).
+ * written by src/core/correction/corrected-csv.ts (the server's run export uses the same rows),
+ * corrected and written a batch at a time.
  *
  * Times: --timezone applies to naive times of both logs; --base-timezone / --rover-timezone override
  * it per log; a GPS-basis log is read as GPS time (no zone) and turned to UTC with the leap-second
@@ -18,13 +19,15 @@
 import path from "node:path";
 import { z } from "zod";
 import {
-  correctReadings,
+  CorrectedCsvStream,
+  createCorrector,
   createReferenceEvaluator,
+  duplicateTimeMarks,
   loopBaseFromStation,
   prepareBaseSeries,
-  writeCorrectedCsv,
+  sliceRoverReadings,
   type BasePosition,
-  type CorrectionResult,
+  type Corrector,
   type DatumChoice,
   type ReferenceFieldEvaluator,
 } from "../../core/correction";
@@ -45,6 +48,8 @@ const USAGE =
   "[--instrument-offset-nt X] [--igrf-file PATH] [--base-lat D --base-lon D --base-height-m M] [--min-field-nt N] [--max-field-nt N]";
 
 const finite = (flag: string) => numberOption(flag);
+/** Readings corrected and written per batch (a few MB of corrected columns). */
+const BATCH_READINGS = 65_536;
 
 const basis = (flag: string) => z.enum(["utc", "gps"], { error: `${flag} must be utc or gps` }).default("utc");
 
@@ -199,9 +204,9 @@ export async function run(argv: string[]): Promise<void> {
     reference = createReferenceEvaluator(model, rover, { baseTimeMs: baseSeries.timeMs, basePosition: basePos });
   }
 
-  let result: CorrectionResult;
+  let corrector: Corrector;
   try {
-    result = correctReadings(rover, baseSeries, reference, {
+    corrector = createCorrector(baseSeries, reference, {
       datum: o.datum,
       method: o.method,
       maxGapS: o["max-gap-s"] ?? (o["loop-station"] ? Infinity : undefined),
@@ -213,22 +218,33 @@ export async function run(argv: string[]): Promise<void> {
     if (err instanceof RangeError) throw new CliError(err.message);
     throw err;
   }
-  const s = result.summary;
+
+  // Corrected and written a batch at a time: no corrected columns for the whole log in memory.
+  // The file appears at --out only when every row is written and something could be corrected.
+  const writer = new AtomicFileWriter(o.out);
+  try {
+    const csv = new CorrectedCsvStream({ writeBytes: (bytes) => writer.writeBytesAsync(bytes) });
+    const marks = duplicateTimeMarks(rover.timeMs, rover.count);
+    for (let start = 0; start < rover.count; start += BATCH_READINGS) {
+      const end = Math.min(rover.count, start + BATCH_READINGS);
+      await csv.write(rover, corrector.correctBatch(sliceRoverReadings(rover, start, end), marks.subarray(start, end)), start);
+    }
+    await csv.finish();
+  } catch (err) {
+    writer.abort();
+    if (err instanceof RangeError) throw new CliError(err.message);
+    if (err instanceof Error && "code" in err) throw new CliError(`cannot write ${o.out}: ${err.message}`); // a system error of the file
+    throw err;
+  }
+  const s = corrector.summary();
   if (s.correctedCount === 0) {
+    writer.abort();
     throw new CliError(
       `no rover reading could be corrected: base covers ${timeSpan(baseSeries.timeMs)}, rover ${timeSpan(rover.timeMs)} ` +
         "(check --timezone, time bases and clock offsets); nothing written",
     );
   }
-
-  const writer = new AtomicFileWriter(o.out);
-  try {
-    await writeCorrectedCsv({ writeBytes: (bytes) => writer.writeBytesAsync(bytes) }, rover, result);
-    writer.commit();
-  } catch (err) {
-    writer.abort();
-    throw new CliError(`cannot write ${o.out}: ${err instanceof Error ? err.message : String(err)}`);
-  }
+  writer.commit();
   for (const w of s.warnings) process.stderr.write(`warning: ${w}\n`);
   const flagged = Object.entries(s.flagCounts).filter(([, n]) => n > 0).map(([k, n]) => `${k} ${n}`).join(", ");
   process.stderr.write(

@@ -236,6 +236,16 @@ export function createCorrector(base: BaseSeries, reference: ReferenceFieldEvalu
   };
 }
 
+/** Readings [start, end) of typed rover columns, as views (nothing copied), for correctBatch. */
+export function sliceRoverReadings(
+  rover: { timeMs: Float64Array; fieldNt: Float64Array; latDeg: Float64Array | null; lonDeg: Float64Array | null; heightM: Float64Array | null },
+  start: number,
+  end: number,
+): RoverReadings {
+  const view = (a: Float64Array | null) => (a ? a.subarray(start, end) : null);
+  return { count: end - start, timeMs: view(rover.timeMs)!, fieldNt: view(rover.fieldNt)!, latDeg: view(rover.latDeg), lonDeg: view(rover.lonDeg), heightM: view(rover.heightM) };
+}
+
 /** Mark every reading whose time occurs more than once in the whole log. */
 export function duplicateTimeMarks(timeMs: ArrayLike<number>, count = timeMs.length): Uint8Array {
   const marks = new Uint8Array(count);

@@ -31,24 +31,41 @@ export type CorrectedCsvRover = Pick<LogReadings, "count" | "timeMs" | "fieldNt"
  * byte (a sink returning a promise may keep each buffer until it settles).
  */
 export async function writeCorrectedCsv(sink: ByteSink, rover: CorrectedCsvRover, result: CorrectionColumns): Promise<void> {
-  const w = new CsvByteWriter((bytes) => sink.writeBytes(bytes));
-  w.text(CORRECTED_CSV_COLUMNS.join(","));
-  w.byte(LF);
-  const rows = new CorrectedRowWriter(w, rover, result);
-  for (let i = 0; i < rover.count; ) {
-    i = rows.writeUntilFull(i);
-    await w.handOff();
-  }
-  await w.finish();
+  const csv = new CorrectedCsvStream(sink);
+  await csv.write(rover, result);
+  await csv.finish();
 }
 
-/** The rows themselves, written synchronously a buffer at a time (a hot loop inside an async function runs slower). */
-class CorrectedRowWriter {
+/**
+ * The same CSV written a batch at a time, so a caller can correct and write in batches without
+ * holding corrected columns for the whole log: the header first, then each batch's rows in the
+ * order they are written.
+ */
+export class CorrectedCsvStream {
+  private readonly w: CsvByteWriter;
   private readonly times = new IsoTimeBytes();
   private readonly joinFlags = createFlagJoiner("|");
   private readonly flagBytes = new Map<number, Uint8Array>();
 
-  constructor(private readonly w: CsvByteWriter, private readonly rover: CorrectedCsvRover, private readonly result: CorrectionColumns) {}
+  constructor(sink: ByteSink) {
+    this.w = new CsvByteWriter((bytes) => sink.writeBytes(bytes));
+    this.w.text(CORRECTED_CSV_COLUMNS.join(","));
+    this.w.byte(LF);
+  }
+
+  /** The rows of `result`; its row i shows rover reading roverOffset + i. */
+  async write(rover: CorrectedCsvRover, result: CorrectionColumns, roverOffset = 0): Promise<void> {
+    if (roverOffset < 0 || roverOffset + result.count > rover.count) throw new RangeError("corrected rows reach past the rover readings");
+    for (let i = 0; i < result.count; ) {
+      i = this.writeUntilFull(rover, result, roverOffset, i);
+      if (this.w.nearlyFull) await this.w.handOff();
+    }
+  }
+
+  /** Hand off the last bytes and wait until the sink has taken them all. */
+  finish(): Promise<void> {
+    return this.w.finish();
+  }
 
   private flagCell(bits: number): Uint8Array {
     let bytes = this.flagBytes.get(bits);
@@ -59,30 +76,34 @@ class CorrectedRowWriter {
     return bytes;
   }
 
-  /** Rows from `from` on until the writer's buffer is nearly full or the rows end; returns the next row. */
-  writeUntilFull(from: number): number {
+  /**
+   * Rows from `from` on until the buffer is nearly full or the batch ends; returns the next row.
+   * Synchronous: a hot loop inside an async function runs slower.
+   */
+  private writeUntilFull(rover: CorrectedCsvRover, result: CorrectionColumns, roverOffset: number, from: number): number {
     const { w, times } = this;
-    const { count, timeMs, fieldNt, latDeg, lonDeg, heightM, line } = this.rover;
-    const { baseNt, diurnalNt, correctedNt, referenceNt, residualNt, flags } = this.result;
+    const { timeMs, fieldNt, latDeg, lonDeg, heightM, line } = rover;
+    const { count, baseNt, diurnalNt, correctedNt, referenceNt, residualNt, flags } = result;
     let i = from;
     for (; i < count && !w.nearlyFull; i++) {
+      const r = roverOffset + i;
       // one row per pass, its position in a local: a call per cell through the writer costs twice as much
-      const lineCell = line ? w.cellBytes(line[i]) : NO_BYTES;
+      const lineCell = line ? w.cellBytes(line[r]) : NO_BYTES;
       const flagCell = flags[i] ? this.flagCell(flags[i]) : NO_BYTES;
       w.reserve(MAX_ROW_BYTES + lineCell.length + flagCell.length);
       const b = w.bytes;
       const v = w.view;
-      let p = times.put(v, w.pos, timeMs[i]);
+      let p = times.put(v, w.pos, timeMs[r]);
       b[p++] = COMMA;
-      if (latDeg) p = putFixed(v, p, latDeg[i], DEG_DECIMALS);
+      if (latDeg) p = putFixed(v, p, latDeg[r], DEG_DECIMALS);
       b[p++] = COMMA;
-      if (lonDeg) p = putFixed(v, p, lonDeg[i], DEG_DECIMALS);
+      if (lonDeg) p = putFixed(v, p, lonDeg[r], DEG_DECIMALS);
       b[p++] = COMMA;
-      if (heightM) p = putFixed(v, p, heightM[i], HEIGHT_DECIMALS);
+      if (heightM) p = putFixed(v, p, heightM[r], HEIGHT_DECIMALS);
       b[p++] = COMMA;
       p = putBytes(b, p, lineCell);
       b[p++] = COMMA;
-      p = putFixed(v, p, fieldNt[i], NT_DECIMALS);
+      p = putFixed(v, p, fieldNt[r], NT_DECIMALS);
       b[p++] = COMMA;
       p = putFixed(v, p, baseNt[i], NT_DECIMALS);
       b[p++] = COMMA;

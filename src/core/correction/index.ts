@@ -16,6 +16,7 @@ export {
   createCorrector,
   correctReadings,
   duplicateTimeMarks,
+  sliceRoverReadings,
   type Corrector,
   type CorrectionColumns,
   type CorrectionOptions,
@@ -24,4 +25,4 @@ export {
   type RoverReadings,
 } from "./correct-readings";
 export { createReferenceEvaluator, type ReferenceEvaluatorContext } from "./reference-adapter";
-export { CORRECTED_CSV_COLUMNS, writeCorrectedCsv, type CorrectedCsvColumn, type CorrectedCsvRover } from "./corrected-csv";
+export { CORRECTED_CSV_COLUMNS, CorrectedCsvStream, writeCorrectedCsv, type CorrectedCsvColumn, type CorrectedCsvRover } from "./corrected-csv";

@@ -11,6 +11,7 @@ import {
   createCorrector,
   createReferenceEvaluator,
   duplicateTimeMarks,
+  sliceRoverReadings,
   loopBaseFromStation,
   mergeFallbackBase,
   prepareBaseSeries,
@@ -118,11 +119,7 @@ export async function computeRun(db: Knex, p: RunParameters, onProgress: (fracti
   };
   for (let start = 0; start < n; start += CHUNK_READINGS) {
     const end = Math.min(n, start + CHUNK_READINGS);
-    const sub = <T extends Float64Array>(a: T | null) => (a ? (a.subarray(start, end) as T) : null);
-    const batch = corrector.correctBatch(
-      { count: end - start, timeMs: sub(rover.timeMs)!, fieldNt: sub(rover.fieldNt)!, latDeg: sub(rover.latDeg), lonDeg: sub(rover.lonDeg), heightM: sub(rover.heightM) },
-      marks.subarray(start, end),
-    );
+    const batch = corrector.correctBatch(sliceRoverReadings(rover, start, end), marks.subarray(start, end));
     out.baseNt.set(batch.baseNt, start);
     out.diurnalNt.set(batch.diurnalNt, start);
     out.correctedNt.set(batch.correctedNt, start);

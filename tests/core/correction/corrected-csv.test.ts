@@ -4,7 +4,7 @@
  * whichever kind of sink takes them.
  */
 import { describe, expect, it } from "vitest";
-import { CORRECTED_CSV_COLUMNS, CorrectionFlag, writeCorrectedCsv, type CorrectionColumns, type CorrectedCsvRover } from "@/src/core/correction";
+import { CORRECTED_CSV_COLUMNS, CorrectedCsvStream, CorrectionFlag, writeCorrectedCsv, type CorrectionColumns, type CorrectedCsvRover } from "@/src/core/correction";
 
 function columns(n: number, fill: (i: number) => [number, number, number, number, number, number]): CorrectionColumns {
   const c: CorrectionColumns = {
@@ -65,5 +65,32 @@ describe("writeCorrectedCsv", () => {
     expect(rows).toHaveLength(n + 1);
     expect(rows[n]).toBe(`${new Date(t0 + (n - 1) * 50).toISOString()},,,,,${(48_900 + Math.sin((n - 1) / 1000) * 30).toFixed(3)},${(48_900 + (n - 1) * 1e-4).toFixed(3)},${((n - 1) * 1e-4).toFixed(3)},48900.000,,,`);
     expect(rows[1001].endsWith(",duplicate_time")).toBe(true);
+  });
+  it("writes the same bytes a batch at a time as all at once, and refuses rows past the rover readings", async () => {
+    const n = 70_000;
+    const t0 = Date.UTC(2026, 4, 4, 5);
+    const rover: CorrectedCsvRover = {
+      count: n,
+      timeMs: Float64Array.from({ length: n }, (_, i) => t0 + i * 50),
+      fieldNt: Float64Array.from({ length: n }, (_, i) => 48_900 + Math.cos(i / 700) * 25),
+      latDeg: Float64Array.from({ length: n }, (_, i) => 52 + i * 1e-7),
+      lonDeg: Float64Array.from({ length: n }, () => -3.5),
+      heightM: null,
+      line: Array.from({ length: n }, (_, i) => `L${Math.floor(i / 9000)}`),
+    };
+    const whole = columns(n, (i) => [48_890 + i * 1e-4, i * 1e-4 - 3, 48_901, 49_100 + i * 1e-5, -199, i % 777 === 0 ? CorrectionFlag.baseGap : 0]);
+    const once = await text(rover, whole, "async");
+    const pieces: Uint8Array[] = [];
+    const csv = new CorrectedCsvStream({ writeBytes: async (b) => void pieces.push(b.slice()) });
+    for (const [from, to] of [[0, 1], [1, 40_000], [40_000, 40_000], [40_000, n]]) {
+      const part = columns(to - from, (i) => {
+        const k = from + i;
+        return [whole.baseNt[k], whole.diurnalNt[k], whole.correctedNt[k], whole.referenceNt[k], whole.residualNt[k], whole.flags[k]];
+      });
+      await csv.write(rover, part, from);
+    }
+    await csv.finish();
+    expect(new TextDecoder().decode(Buffer.concat(pieces))).toBe(once);
+    await expect(new CorrectedCsvStream({ writeBytes: () => {} }).write(rover, columns(2, () => [1, 1, 1, 1, 1, 0]), n - 1)).rejects.toThrow(RangeError);
   });
 });
