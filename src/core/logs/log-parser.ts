@@ -20,7 +20,7 @@ import { createTimestampReader, TimestampError, type TimeReadOptions, type Times
 import { resolveColumnMapping, type ColumnMappingResult, type ExplicitColumnMapping } from "./column-mapping";
 import { detectDelimiter, type Delimiter } from "./delimiter";
 import { LogFormatError } from "./log-format-error";
-import { parseDecimalBytes } from "./decimal-span";
+import { decimalStop, parseDecimalBytes, readDecimalPrefix } from "./decimal-span";
 import { ReadingColumnsBuilder, type LogReadings } from "./reading-columns";
 
 /** Plausible total field at the Earth's surface, nT (IGRF surface range is roughly 22 000–67 000; practice adds margin). */
@@ -116,6 +116,11 @@ function readNumber(s: string, decimalComma: boolean): number {
 const NO_BYTES = new Uint8Array(0);
 const LOOKS_LIKE_DATA = /^[\s\d.,:+\-/TZ]+$/;
 const INITIAL_CELLS = 64;
+const KIND_NUMBER = 1;
+// Module-level copies for the hot loop: an imported binding may be read through a getter per use
+// (CommonJS interop of the TypeScript loader), a local constant is not.
+const readDecimal = readDecimalPrefix;
+const decimalEnd = decimalStop;
 const LF = 10;
 const CR = 13;
 const QUOTE = 34;
@@ -166,6 +171,10 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
   // The current row: cell i is src[cellStart[i], cellEnd[i]) (UTF-8 bytes), padding trimmed.
   let cellStart = new Int32Array(INITIAL_CELLS);
   let cellEnd = new Int32Array(INITIAL_CELLS);
+  // cellValue[i]: the number of cell i when a numeric column's cell was read during the cut, else NaN
+  let cellValue = new Float64Array(INITIAL_CELLS);
+  // per column: KIND_NUMBER for the field, lat, lon and height columns (set with the header)
+  let cellKinds = new Uint8Array(0);
   let cellCount = 0;
 
   // column indices (−1 absent), set with the header
@@ -175,22 +184,30 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
   function pushCell(src: Uint8Array, from: number, to: number): void {
     if (from < to && isPadding(src[from])) while (from < to && isPadding(src[from])) from++;
     if (to > from && isPadding(src[to - 1])) while (to > from && isPadding(src[to - 1])) to--;
-    if (cellCount === cellStart.length) {
-      const a = new Int32Array(cellCount * 2), b = new Int32Array(cellCount * 2);
-      a.set(cellStart);
-      b.set(cellEnd);
-      cellStart = a;
-      cellEnd = b;
-    }
+    if (cellCount === cellStart.length) growCells();
     cellStart[cellCount] = from;
     cellEnd[cellCount] = to;
+    cellValue[cellCount] = NaN;
     cellCount++;
+  }
+
+  function growCells(): void {
+    const a = new Int32Array(cellStart.length * 2), b = new Int32Array(cellStart.length * 2);
+    const v = new Float64Array(cellStart.length * 2);
+    a.set(cellStart);
+    b.set(cellEnd);
+    v.set(cellValue);
+    cellStart = a;
+    cellEnd = b;
+    cellValue = v;
   }
 
   const blank = (i: number) => i >= cellCount || cellStart[i] === cellEnd[i];
   const textOf = (src: Uint8Array, i: number) => (i < cellCount ? UTF8_DECODER.decode(src.subarray(cellStart[i], cellEnd[i])) : "");
 
   function numberOf(src: Uint8Array, i: number): number {
+    const read = cellValue[i];
+    if (read === read) return read;
     const v = parseDecimalBytes(src, cellStart[i], cellEnd[i], decimalComma);
     return v === v ? v : readNumber(textOf(src, i), decimalComma);
   }
@@ -232,6 +249,9 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
     const names = header;
     nameOf = (i) => names[i] ?? `column ${i + 1}`;
     decimalComma = delimiter !== ",";
+    const numeric = [iField, iLat, iLon, iHeight];
+    cellKinds = new Uint8Array(Math.max(header.length, ...numeric) + 1);
+    for (const i of numeric) if (i >= 0) cellKinds[i] = KIND_NUMBER;
     builder = newBuilder();
   }
 
@@ -365,65 +385,140 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
 
   /**
    * Complete lines (no trailing line feed) as UTF-8 bytes. Unquoted delimited text is split here in
-   * one pass over the bytes, without a string per cell; a block holding quotes goes through
-   * papaparse, whose cells are joined and re-encoded so the same row code reads them.
+   * one pass over the bytes, without a string per cell; from the first line holding a quote on, the
+   * block goes through papaparse, whose cells are joined and re-encoded so the same row code reads
+   * them. With `mayWait`, a quoted part whose quotes do not pair up is not read: its offset in the
+   * block is returned so the caller keeps it for more text; otherwise the result is −1.
    */
-  function processBlock(block: Uint8Array): void {
+  function processBlock(block: Uint8Array, mayWait: boolean): number {
     const n = block.length;
     if (n === 0) {
       lineNo++; // one empty line
-      return;
-    }
-    if (delimiter !== "whitespace" && block.indexOf(QUOTE) >= 0) {
-      // papaparse accepts blanks or a CR between a closing quote and a line feed, but at the very
-      // end of its input it keeps the quote (`"10000"\r` → `10000"\r`): a CRLF file's row ending in
-      // a quoted cell, cut here at its LF, would lose its number. Trailing padding is dropped first
-      // (pushCell trims it from the last cell anyway).
-      let end = n;
-      while (end > 0 && isPadding(block[end - 1])) end--;
-      processQuotedBlock(UTF8_DECODER.decode(block.subarray(0, end)));
-      return;
+      return -1;
     }
     if (delimiter === "whitespace") {
-      let at = 0;
-      while (at <= n) {
-        let nl = block.indexOf(LF, at);
-        if (nl < 0) nl = n;
-        lineNo++;
-        cellCount = 0;
-        let k = at;
-        while (k < nl) {
-          while (k < nl && isPadding(block[k])) k++;
-          if (k >= nl) break;
-          const from = k;
-          while (k < nl && !isPadding(block[k])) k++;
-          pushCell(block, from, k);
+      processWhitespaceBlock(block);
+      return -1;
+    }
+    const quotedFrom = scanDelimited(block, delimiter.charCodeAt(0));
+    if (quotedFrom < 0) return -1;
+    const quoted = block.subarray(quotedFrom);
+    if (mayWait && quotedRunOn(quoted)) return quotedFrom;
+    // papaparse accepts blanks or a CR between a closing quote and a line feed, but at the very
+    // end of its input it keeps the quote (`"10000"\r` → `10000"\r`): a CRLF file's row ending in
+    // a quoted cell, cut here at its LF, would lose its number. Trailing padding is dropped first
+    // (pushCell trims it from the last cell anyway).
+    let end = quoted.length;
+    while (end > 0 && isPadding(quoted[end - 1])) end--;
+    processQuotedBlock(UTF8_DECODER.decode(quoted.subarray(0, end)));
+    return -1;
+  }
+
+  /** Lines split on runs of blanks (tabs, spaces), quotes read as text. */
+  function processWhitespaceBlock(block: Uint8Array): void {
+    const n = block.length;
+    let at = 0;
+    while (at <= n) {
+      let nl = block.indexOf(LF, at);
+      if (nl < 0) nl = n;
+      lineNo++;
+      cellCount = 0;
+      let k = at;
+      while (k < nl) {
+        while (k < nl && isPadding(block[k])) k++;
+        if (k >= nl) break;
+        const from = k;
+        while (k < nl && !isPadding(block[k])) k++;
+        pushCell(block, from, k);
+      }
+      if (cellCount > 0) processRow(block, lineNo);
+      at = nl + 1;
+    }
+  }
+
+  /**
+   * Unquoted text with a one-character delimiter: each line is cut into cells and handed to
+   * processRow, in one pass over the bytes. A cell of a numeric column (field, lat, lon, height) is
+   * read as a number in the same pass when it is a plain decimal ending at the delimiter, line end
+   * or a CRLF (see parseDecimalBytes for the exact-result rule); any other form (padding, exponent,
+   * long mantissa, garbage) is left for processRow's full reading. Padding is trimmed only where a
+   * cell starts or ends with a blank or CR. Stops at the first line holding a quote (every byte is
+   * seen either by the number reading, which takes no quote, or by the cell scan) and returns that
+   * line's offset, its row unread; −1 when every line was read.
+   */
+  function scanDelimited(block: Uint8Array, delimCode: number): number {
+    const n = block.length;
+    const pointComma = decimalComma;
+    let starts = cellStart;
+    let ends = cellEnd;
+    let values = cellValue;
+    let at = 0;
+    while (at <= n) {
+      const kinds = cellKinds; // set by the header line, which this loop may have just read
+      const kindCount = kinds.length;
+      let count = 0;
+      let k = at;
+      for (;;) {
+        if (count === starts.length) {
+          cellCount = count;
+          growCells();
+          starts = cellStart;
+          ends = cellEnd;
+          values = cellValue;
         }
-        if (cellCount > 0) processRow(block, lineNo);
-        at = nl + 1;
+        let from = k;
+        let c = 0;
+        if (count < kindCount && kinds[count] === KIND_NUMBER) {
+          // plain decimal read in place: [+-]digits[.digits], then the cell's end
+          const v = readDecimal(block, k, n, pointComma);
+          let i = decimalEnd.at;
+          c = i < n ? block[i] : LF;
+          let end = i;
+          if (c === CR && (i + 1 >= n || block[i + 1] === LF)) {
+            i++; // CRLF: the CR is padding of the last cell
+            c = LF;
+          }
+          if ((c === delimCode || c === LF) && v === v) {
+            values[count] = v;
+            starts[count] = from;
+            ends[count] = end;
+            count++;
+            k = i;
+            if (k >= n || c === LF) break;
+            k++;
+            continue;
+          }
+          values[count] = NaN; // another form: read in full by processRow
+        }
+        while (k < n) {
+          c = block[k];
+          if (c === delimCode || c === LF) break;
+          if (c === QUOTE) {
+            cellCount = 0;
+            return at;
+          }
+          k++;
+        }
+        let to = k;
+        if (from < to && (block[from] === 32 || block[from] === 9 || block[from] === CR)) {
+          while (from < to && isPadding(block[from])) from++;
+        }
+        if (to > from && (block[to - 1] === 32 || block[to - 1] === 9 || block[to - 1] === CR)) {
+          while (to > from && isPadding(block[to - 1])) to--;
+        }
+        starts[count] = from;
+        ends[count] = to;
+        count++;
+        if (k >= n || c === LF) break;
+        k++;
       }
-      return;
+      cellCount = count;
+      lineNo++;
+      processRow(block, lineNo);
+      at = k + 1;
     }
-    const delimCode = delimiter.charCodeAt(0);
-    let from = 0;
     cellCount = 0;
-    for (let k = 0; k < n; k++) {
-      const c = block[k];
-      if (c === delimCode) {
-        pushCell(block, from, k);
-        from = k + 1;
-      } else if (c === LF) {
-        pushCell(block, from, k);
-        lineNo++;
-        processRow(block, lineNo);
-        from = k + 1;
-        cellCount = 0;
-      }
-    }
-    pushCell(block, from, n); // the last line has no line feed
-    lineNo++;
-    processRow(block, lineNo);
-    cellCount = 0;
+    return -1;
   }
 
   function processQuotedBlock(text: string): void {
@@ -478,14 +573,14 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
     const cut = final ? pending.length : pending.lastIndexOf(LF);
     if (cut < 0) return;
     const block = pending.subarray(0, cut);
-    if (!final && delimiter !== "whitespace" && block.indexOf(QUOTE) >= 0) {
-      let quotes = 0;
-      for (let k = block.indexOf(QUOTE); k >= 0; k = block.indexOf(QUOTE, k + 1)) quotes++;
-      if (quotes % 2 === 1) return; // a quoted field runs on: wait for more text
+    const tail = final ? new Uint8Array(0) : pending.subarray(cut + 1);
+    if (block.length === 0 && final) {
+      pending = tail;
+      return;
     }
-    pending = final ? new Uint8Array(0) : pending.slice(cut + 1); // a copy: never keep the caller's chunk
-    if (block.length === 0 && final) return;
-    processBlock(block);
+    const waitFrom = processBlock(block, !final);
+    // a copy: never keep the caller's chunk; a quoted field that runs on waits for more text
+    pending = waitFrom >= 0 ? pending.slice(waitFrom) : tail.slice();
     flushBatch();
   }
 
@@ -547,7 +642,7 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
         return;
       }
       pending = new Uint8Array(0);
-      processBlock(line);
+      processBlock(line, false);
       rest = bytes.subarray(firstLf + 1);
     }
     pending = pending.length === 0 ? rest : concatBytes(pending, rest);
