@@ -134,6 +134,7 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
     throw new RangeError(`unknown date order "${String(dateOrder)}" (expected dmy or mdy)`);
   }
   const clockOffsetMs = Math.round(clockOffsetS * 1000);
+  const gpsBasis = timeBasis === "gps";
   const localToUtc = createLocalToUtc(timeZone);
   let defaultDate: [number, number, number] | null = null;
   if (options.defaultDate !== undefined) {
@@ -177,36 +178,38 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
    * impossible (the general path then reads it and reports why).
    */
   function parseFixedLayout(bytes: Uint8Array, at: number, end: number): number {
-    const n = end - at;
-    if (n < 19) return NaN;
-    const c4 = bytes[at + 4];
-    const c10 = bytes[at + 10];
-    if ((c4 !== 45 && c4 !== 47) || bytes[at + 7] !== c4 || (c10 !== 84 && c10 !== 32)) return NaN;
-    if (bytes[at + 13] !== 58 || bytes[at + 16] !== 58) return NaN;
+    if (end - at < 19) return NaN;
     let stop = end;
-    let zulu = false;
-    if (bytes[end - 1] === 90) {
-      zulu = true;
-      stop = end - 1;
-    }
-    const s = digits(bytes, at + 17, 2);
-    if (s < 0 || s > 59) return NaN;
+    const zulu = bytes[end - 1] === 90;
+    if (zulu) stop = end - 1;
+    // seconds and fraction first: they change every row, the minute rarely
+    const s1 = bytes[at + 17] - 48, s0 = bytes[at + 18] - 48;
+    if (bytes[at + 16] !== 58 || s1 < 0 || s1 > 5 || s0 < 0 || s0 > 9) return NaN;
     let ms = 0;
     if (stop > at + 19) {
       if (bytes[at + 19] !== 46 || stop === at + 20) return NaN;
       let four = 0;
-      for (let i = at + 20; i < stop; i++) {
+      let i = at + 20;
+      const fourEnd = stop < at + 24 ? stop : at + 24;
+      for (; i < fourEnd; i++) {
         const c = bytes[i] - 48;
         if (c < 0 || c > 9) return NaN;
-        if (i < at + 24) four = four * 10 + c;
+        four = four * 10 + c;
       }
-      for (let k = stop - (at + 20); k < 4; k++) four *= 10;
-      ms = Math.floor(four / 10) + (four % 10 >= 5 ? 1 : 0);
+      for (; i < stop; i++) {
+        const c = bytes[i] - 48;
+        if (c < 0 || c > 9) return NaN;
+      }
+      for (let k = fourEnd - (at + 20); k < 4; k++) four *= 10;
+      ms = (four - (four % 10)) / 10 + (four % 10 >= 5 ? 1 : 0);
     }
+    const secondMs = (s1 * 10 + s0) * 1000 + ms;
+    // the minute `yyyy-mm-ddThh:mm`: the one of the previous row (already checked), or read now
     let same = cacheValid && zulu === cachedZulu;
     if (same) {
+      const p = cachedPrefix;
       for (let i = 15; i >= 0; i--) {
-        if (bytes[at + i] !== cachedPrefix[i]) {
+        if (bytes[at + i] !== p[i]) {
           same = false;
           break;
         }
@@ -216,6 +219,9 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
     if (same) {
       minuteUtcMs = cachedMinuteUtcMs;
     } else {
+      const c4 = bytes[at + 4];
+      const c10 = bytes[at + 10];
+      if ((c4 !== 45 && c4 !== 47) || bytes[at + 7] !== c4 || (c10 !== 84 && c10 !== 32) || bytes[at + 13] !== 58) return NaN;
       const y = digits(bytes, at, 4), mo = digits(bytes, at + 5, 2), d = digits(bytes, at + 8, 2);
       const h = digits(bytes, at + 11, 2), mi = digits(bytes, at + 14, 2);
       if (y < 0 || mo < 0 || d < 0 || h < 0 || mi < 0) return NaN;
@@ -226,10 +232,10 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
       for (let i = 0; i < 16; i++) cachedPrefix[i] = bytes[at + i];
       cachedZulu = zulu;
       cachedMinuteUtcMs = minuteUtcMs;
-      if (!cacheValid) return instantOf(y, mo, d, h, mi, s, ms, zulu ? 0 : null);
+      if (!cacheValid) return instantOf(y, mo, d, h, mi, s1 * 10 + s0, ms, zulu ? 0 : null);
     }
-    let t = minuteUtcMs + s * 1000 + ms + clockOffsetMs;
-    if (timeBasis === "gps") t = gpsToUtcMs(t);
+    let t = minuteUtcMs + secondMs + clockOffsetMs;
+    if (gpsBasis) t = gpsToUtcMs(t);
     return t;
   }
 
