@@ -26,6 +26,12 @@ import { ReadingColumnsBuilder, type LogReadings } from "./reading-columns";
 /** Plausible total field at the Earth's surface, nT (IGRF surface range is roughly 22 000–67 000; practice adds margin). */
 export const DEFAULT_FIELD_RANGE_NT = { minNt: 10_000, maxNt: 120_000 } as const;
 const DEFAULT_MAX_REPORTED_ROWS = 10_000;
+/** Most readings a size hint may reserve room for (beyond it the columns grow by doubling). */
+const MAX_HINTED_ROWS = 1 << 22;
+/** Room reserved over the lines estimated from the size hint. */
+const HINT_MARGIN = 1.02;
+/** Lines read before the bytes per line are taken as the file's. */
+const HINT_MIN_LINES = 256;
 const MAX_VALUE_CHARS = 80;
 
 export type RejectReason =
@@ -60,6 +66,12 @@ export interface LogParseOptions extends TimeReadOptions {
   delimiter?: Delimiter;
   /** Keep at most this many rejected rows and issues in detail (counts stay exact); default 10 000. */
   maxReportedRows?: number;
+  /**
+   * Size of the whole log in bytes when known (a file): the reading columns are sized once, from
+   * it and the bytes per line of the first block read, instead of grown by doubling. A hint only:
+   * any value, too small or too large, gives the same result.
+   */
+  sizeHintBytes?: number;
 }
 
 export interface LogParseSummary {
@@ -163,6 +175,10 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
   const issues: RowProblem<IssueReason>[] = [];
   const warnings: string[] = [];
   let prevTimeMs = NaN;
+  // size hint: bytes pushed so far, and whether room was reserved already
+  const sizeHintBytes = options.sizeHintBytes;
+  let bytesPushed = 0;
+  let sized = !(sizeHintBytes !== undefined && sizeHintBytes > 0 && Number.isFinite(sizeHintBytes)) || sinks.onBatch !== undefined;
   let lastLine = "";
   let lastLineBytes = NO_BYTES;
   let lastStation = "";
@@ -581,7 +597,17 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
     const waitFrom = processBlock(block, !final);
     // a copy: never keep the caller's chunk; a quoted field that runs on waits for more text
     pending = waitFrom >= 0 ? pending.slice(waitFrom) : tail.slice();
+    if (!sized) reserveFromHint();
     flushBatch();
+  }
+
+  /** Room for the readings the size hint promises, at the bytes per line read so far (once). */
+  function reserveFromHint(): void {
+    const readBytes = bytesPushed - pending.length;
+    if (builder === null || lineNo < HINT_MIN_LINES || readBytes <= 0) return; // too few lines to tell
+    sized = true;
+    const lines = (sizeHintBytes! / readBytes) * lineNo * HINT_MARGIN;
+    builder.reserve(Math.min(MAX_HINTED_ROWS, Math.ceil(lines)));
   }
 
   function flushBatch(): void {
@@ -625,6 +651,7 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
   function pushBytes(chunk: Uint8Array): void {
     // a plain Uint8Array view (not a Node Buffer subclass) keeps the byte loops monomorphic
     const bytes = new Uint8Array(chunk.buffer, chunk.byteOffset, chunk.byteLength);
+    bytesPushed += bytes.length;
     let rest = bytes;
     if (pending.length > 0 && started && !atStreamStart && delimiter !== "whitespace") {
       // finish the carried-over partial line with the head of this chunk, so the chunk itself is

@@ -27,10 +27,19 @@ function grow(a: Float64Array, n: number): Float64Array {
   return b;
 }
 
+/** `values[0, count)` in a new array of `n` entries (the rest ""). */
+function roomFor(values: string[], count: number, n: number): string[] {
+  const out = new Array<string>(n).fill("");
+  for (let i = 0; i < count; i++) out[i] = values[i];
+  return out;
+}
+
 /** Append-only builder with doubling typed arrays. */
 export class ReadingColumnsBuilder {
   count = 0;
   private capacity: number;
+  /** Room was set by reserve() (a hint), not by doubling. */
+  private reserved = false;
   timeMs: Float64Array;
   fieldNt: Float64Array;
   latDeg: Float64Array | null;
@@ -52,9 +61,23 @@ export class ReadingColumnsBuilder {
     this.sourceLine = new Uint32Array(this.capacity);
   }
 
+  /** Make room for `capacity` readings in one step (a size hint: pushing past it still works). */
+  reserve(capacity: number): void {
+    if (capacity <= this.capacity) return;
+    const n = Math.floor(capacity);
+    this.resize(n);
+    this.reserved = true;
+    // text columns too: filling an array once is cheaper than growing it push by push
+    if (this.line) this.line = roomFor(this.line, this.count, n);
+    if (this.station) this.station = roomFor(this.station, this.count, n);
+  }
+
   private ensure(): void {
     if (this.count < this.capacity) return;
-    const n = this.capacity * 2;
+    this.resize(this.capacity * 2);
+  }
+
+  private resize(n: number): void {
     this.timeMs = grow(this.timeMs, n);
     this.fieldNt = grow(this.fieldNt, n);
     if (this.latDeg) this.latDeg = grow(this.latDeg, n);
@@ -74,24 +97,31 @@ export class ReadingColumnsBuilder {
     if (this.latDeg) this.latDeg[i] = latDeg;
     if (this.lonDeg) this.lonDeg[i] = lonDeg;
     if (this.heightM) this.heightM[i] = heightM;
-    if (this.line) this.line.push(line);
-    if (this.station) this.station.push(station);
+    if (this.line) this.line[i] = line; // appends, or fills reserved room
+    if (this.station) this.station[i] = station;
     this.sourceLine[i] = sourceLine;
   }
 
-  /** Trimmed views of what was pushed. */
+  /**
+   * Trimmed views of what was pushed; copies instead when a reserve() left over half the room unused
+   * (a size hint that was too large), so the spare room is not kept alive by the result.
+   */
   build(): LogReadings {
     const n = this.count;
+    const copy = this.reserved && n < this.capacity / 2;
+    if (this.line && this.line.length > n) this.line.length = n; // reserved room not used
+    if (this.station && this.station.length > n) this.station.length = n;
+    const trim = <T extends Float64Array | Uint32Array>(a: T): T => (copy ? (a.slice(0, n) as T) : (a.subarray(0, n) as T));
     return {
       count: n,
-      timeMs: this.timeMs.subarray(0, n),
-      fieldNt: this.fieldNt.subarray(0, n),
-      latDeg: this.latDeg ? this.latDeg.subarray(0, n) : null,
-      lonDeg: this.lonDeg ? this.lonDeg.subarray(0, n) : null,
-      heightM: this.heightM ? this.heightM.subarray(0, n) : null,
+      timeMs: trim(this.timeMs),
+      fieldNt: trim(this.fieldNt),
+      latDeg: this.latDeg ? trim(this.latDeg) : null,
+      lonDeg: this.lonDeg ? trim(this.lonDeg) : null,
+      heightM: this.heightM ? trim(this.heightM) : null,
       line: this.line,
       station: this.station,
-      sourceLine: this.sourceLine.subarray(0, n),
+      sourceLine: trim(this.sourceLine),
     };
   }
 }
