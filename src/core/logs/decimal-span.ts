@@ -6,18 +6,19 @@ const MAX_DIGITS = 15;
 const POINT = 46;
 const COMMA = 44;
 
-/** Where the last readDecimalPrefix stopped: the offset of the first byte that is not part of the number. */
-export const decimalStop = { at: 0 };
+/** parseDecimalBytes' slot for the value (a typed slot keeps the double unboxed). */
+const scratch = new Float64Array(1);
 
 /**
  * The `[+-]digits[.digits]` that starts bytes[start, limit) (`,` as the point too when
- * `decimalComma`); decimalStop.at is set to the first byte after it. NaN when it has no digit or
- * more than 15 (the caller then falls back to Number()). Exact: an integer below 2^53 divided by an
+ * `decimalComma`) into out[outAt]; returns the offset of the first byte after it. The value is NaN
+ * when it has no digit or more than 15 (the caller then falls back to Number()). The value goes to
+ * a typed slot, not a return value, so that it is never boxed on the heap. Exact: an integer below 2^53 divided by an
  * exact power of ten is correctly rounded (IEEE 754), so the result equals Number() of the same
  * text (Clinger's fast path, common practice). Integer and fraction digits are read in two plain
  * loops, without per-digit state flags.
  */
-export function readDecimalPrefix(bytes: Uint8Array, start: number, limit: number, decimalComma: boolean): number {
+export function readDecimalPrefix(bytes: Uint8Array, start: number, limit: number, decimalComma: boolean, out: Float64Array, outAt: number): number {
   let i = start;
   const first = i < limit ? bytes[i] : 0;
   const negative = first === 45;
@@ -42,10 +43,13 @@ export function readDecimalPrefix(bytes: Uint8Array, start: number, limit: numbe
     fractionDigits = i - fracStart;
     digitCount += fractionDigits;
   }
-  decimalStop.at = i;
-  if (digitCount === 0 || digitCount > MAX_DIGITS) return NaN;
-  const v = fractionDigits === 0 ? mantissa : mantissa / POW10[fractionDigits];
-  return negative ? -v : v;
+  if (digitCount === 0 || digitCount > MAX_DIGITS) {
+    out[outAt] = NaN;
+  } else {
+    const v = fractionDigits === 0 ? mantissa : mantissa / POW10[fractionDigits];
+    out[outAt] = negative ? -v : v;
+  }
+  return i;
 }
 
 /**
@@ -53,6 +57,5 @@ export function readDecimalPrefix(bytes: Uint8Array, start: number, limit: numbe
  * span has another form (exponent, more than 15 digits, garbage): the caller then falls back to Number().
  */
 export function parseDecimalBytes(bytes: Uint8Array, start: number, end: number, decimalComma: boolean): number {
-  const v = readDecimalPrefix(bytes, start, end, decimalComma);
-  return decimalStop.at === end ? v : NaN;
+  return readDecimalPrefix(bytes, start, end, decimalComma, scratch, 0) === end ? scratch[0] : NaN;
 }

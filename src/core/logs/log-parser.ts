@@ -20,8 +20,8 @@ import { createTimestampReader, TimestampError, type TimeReadOptions, type Times
 import { resolveColumnMapping, type ColumnMappingResult, type ExplicitColumnMapping } from "./column-mapping";
 import { detectDelimiter, type Delimiter } from "./delimiter";
 import { LogFormatError } from "./log-format-error";
-import { decimalStop, parseDecimalBytes, readDecimalPrefix } from "./decimal-span";
-import { ReadingColumnsBuilder, type LogReadings } from "./reading-columns";
+import { parseDecimalBytes, readDecimalPrefix } from "./decimal-span";
+import { ReadingColumnsBuilder, ROW_FIELD, ROW_HEIGHT, ROW_LAT, ROW_LON, ROW_TIME, type LogReadings } from "./reading-columns";
 
 /** Plausible total field at the Earth's surface, nT (IGRF surface range is roughly 22 000–67 000; practice adds margin). */
 export const DEFAULT_FIELD_RANGE_NT = { minNt: 10_000, maxNt: 120_000 } as const;
@@ -129,10 +129,11 @@ const NO_BYTES = new Uint8Array(0);
 const LOOKS_LIKE_DATA = /^[\s\d.,:+\-/TZ]+$/;
 const INITIAL_CELLS = 64;
 const KIND_NUMBER = 1;
+const ROW_PREV_TIME = 5;
 // Module-level copies for the hot loop: an imported binding may be read through a getter per use
 // (CommonJS interop of the TypeScript loader), a local constant is not.
 const readDecimal = readDecimalPrefix;
-const decimalEnd = decimalStop;
+const SLOT_TIME = ROW_TIME, SLOT_FIELD = ROW_FIELD, SLOT_LAT = ROW_LAT, SLOT_LON = ROW_LON, SLOT_HEIGHT = ROW_HEIGHT;
 const LF = 10;
 const CR = 13;
 const QUOTE = 34;
@@ -156,6 +157,7 @@ function concatBytes(a: Uint8Array, b: Uint8Array): Uint8Array {
 export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogStreamSinks = {}): LogStreamParser {
   const range = options.fieldRangeNt ?? DEFAULT_FIELD_RANGE_NT;
   if (!(range.minNt < range.maxNt)) throw new RangeError("plausible field range needs minNt < maxNt");
+  const minNt = range.minNt, maxNt = range.maxNt;
   const maxReported = options.maxReportedRows ?? DEFAULT_MAX_REPORTED_ROWS;
   const reader: TimestampReader = createTimestampReader(options);
 
@@ -174,7 +176,11 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
   const rejected: RowProblem<RejectReason>[] = [];
   const issues: RowProblem<IssueReason>[] = [];
   const warnings: string[] = [];
-  let prevTimeMs = NaN;
+  // Per-row numbers live in typed slots: a double kept in a closure variable or passed to a call
+  // that is not inlined is boxed, one heap allocation per row.
+  // row[ROW_*]: the reading being built; row[ROW_PREV_TIME]: time of the previous kept row
+  const row = new Float64Array(6);
+  row[ROW_PREV_TIME] = NaN;
   // size hint: bytes pushed so far, and whether room was reserved already
   const sizeHintBytes = options.sizeHintBytes;
   let bytesPushed = 0;
@@ -277,15 +283,15 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
 
   /** The row held in cellStart/cellEnd over src. */
   function processRow(src: Uint8Array, line: number): void {
-    let allBlank = true;
-    for (let i = 0; i < cellCount; i++) {
-      if (cellStart[i] !== cellEnd[i]) {
-        allBlank = false;
-        break;
-      }
+    const count = cellCount, starts = cellStart, ends = cellEnd;
+    if (count === 0) return;
+    if (starts[0] === ends[0]) {
+      let i = 1;
+      while (i < count && starts[i] === ends[i]) i++;
+      if (i === count) return; // blank line
+    } else if (src[starts[0]] === HASH) {
+      return; // comment
     }
-    if (allBlank) return;
-    if (!blank(0) && src[cellStart[0]] === HASH) return;
     if (header === null) {
       const cells: string[] = [];
       for (let i = 0; i < cellCount; i++) cells.push(textOf(src, i));
@@ -301,6 +307,7 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
       reject(line, col, textOf(src, col), "missing_time", "no time");
       return;
     }
+    const timeFrom = starts[iTime], timeTo = ends[iTime];
     try {
       if (iDate >= 0) {
         const timeText = textOf(src, iTime);
@@ -310,7 +317,7 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
           timeMs = reader.parse(timeText); // a time column that already holds the date
         }
       } else {
-        timeMs = reader.parseBytes(src, cellStart[iTime], cellEnd[iTime]);
+        timeMs = reader.parseBytes(src, timeFrom, timeTo);
       }
     } catch (e) {
       if (!(e instanceof TimestampError)) throw e;
@@ -324,13 +331,15 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
       reject(line, iField, "", "missing_field", "no total-field value");
       return;
     }
-    const fieldNt = numberOf(src, iField);
+    const values = cellValue;
+    let fieldNt = values[iField];
+    if (fieldNt !== fieldNt) fieldNt = numberOf(src, iField);
     if (fieldNt !== fieldNt) {
       const t = textOf(src, iField);
       reject(line, iField, t, "non_numeric_field", `total field "${clip(t)}" is not a number`);
       return;
     }
-    if (fieldNt < range.minNt || fieldNt > range.maxNt) {
+    if (fieldNt < minNt || fieldNt > maxNt) {
       reject(line, iField, textOf(src, iField), "field_out_of_range", `total field ${fieldNt} nT is outside the plausible ${range.minNt}–${range.maxNt} nT`);
       return;
     }
@@ -340,8 +349,10 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
     if (iLat >= 0) {
       const latEmpty = blank(iLat), lonEmpty = blank(iLon);
       if (!latEmpty || !lonEmpty) {
-        latDeg = latEmpty ? NaN : numberOf(src, iLat);
-        lonDeg = lonEmpty ? NaN : numberOf(src, iLon);
+        latDeg = latEmpty ? NaN : values[iLat];
+        if (latDeg !== latDeg && !latEmpty) latDeg = numberOf(src, iLat);
+        lonDeg = lonEmpty ? NaN : values[iLon];
+        if (lonDeg !== lonDeg && !lonEmpty) lonDeg = numberOf(src, iLon);
         if (latDeg !== latDeg) {
           const t = textOf(src, iLat);
           reject(line, iLat, t, "non_numeric_position", `latitude "${clip(t)}" is not a number`);
@@ -363,7 +374,8 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
       }
     }
     if (iHeight >= 0 && !blank(iHeight)) {
-      heightM = numberOf(src, iHeight);
+      heightM = values[iHeight];
+      if (heightM !== heightM) heightM = numberOf(src, iHeight);
       if (heightM !== heightM) {
         const t = textOf(src, iHeight);
         reject(line, iHeight, t, "non_numeric_height", `height "${clip(t)}" is not a number`);
@@ -371,32 +383,46 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
       }
     }
 
+    const prevTimeMs = row[ROW_PREV_TIME];
     if (timeMs < prevTimeMs) {
       issue(line, iTime, textOf(src, iTime), "time_backwards", `time goes backwards by ${((prevTimeMs - timeMs) / 1000).toFixed(3)} s`);
     } else if (timeMs === prevTimeMs) {
       issue(line, iTime, textOf(src, iTime), "duplicate_time", "same time as the previous reading");
     }
-    prevTimeMs = timeMs;
+    row[ROW_PREV_TIME] = timeMs;
     // text cells: consecutive equal values share one string (a survey line spans thousands of rows)
+    let lineName = "";
     if (iLine >= 0) {
       if (blank(iLine)) {
         lastLine = "";
         lastLineBytes = NO_BYTES; // else the value before the blank would still count as current
       } else if (!cellEquals(src, iLine, lastLineBytes)) {
-        lastLineBytes = src.slice(cellStart[iLine], cellEnd[iLine]);
+        lastLineBytes = src.slice(starts[iLine], ends[iLine]);
         lastLine = UTF8_DECODER.decode(lastLineBytes);
+        lineName = lastLine;
+      } else {
+        lineName = lastLine;
       }
     }
+    let stationName = "";
     if (iStation >= 0) {
       if (blank(iStation)) {
         lastStation = "";
         lastStationBytes = NO_BYTES;
       } else if (!cellEquals(src, iStation, lastStationBytes)) {
-        lastStationBytes = src.slice(cellStart[iStation], cellEnd[iStation]);
+        lastStationBytes = src.slice(starts[iStation], ends[iStation]);
         lastStation = UTF8_DECODER.decode(lastStationBytes);
+        stationName = lastStation;
+      } else {
+        stationName = lastStation;
       }
     }
-    builder!.push(timeMs, fieldNt, latDeg, lonDeg, heightM, iLine >= 0 && !blank(iLine) ? lastLine : "", iStation >= 0 && !blank(iStation) ? lastStation : "", line);
+    row[SLOT_TIME] = timeMs;
+    row[SLOT_FIELD] = fieldNt;
+    row[SLOT_LAT] = latDeg;
+    row[SLOT_LON] = lonDeg;
+    row[SLOT_HEIGHT] = heightM;
+    builder!.pushRow(row, lineName, stationName, line);
   }
 
   /**
@@ -486,16 +512,14 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
         let c = 0;
         if (count < kindCount && kinds[count] === KIND_NUMBER) {
           // plain decimal read in place: [+-]digits[.digits], then the cell's end
-          const v = readDecimal(block, k, n, pointComma);
-          let i = decimalEnd.at;
+          let i = readDecimal(block, k, n, pointComma, values, count);
           c = i < n ? block[i] : LF;
           let end = i;
           if (c === CR && (i + 1 >= n || block[i + 1] === LF)) {
             i++; // CRLF: the CR is padding of the last cell
             c = LF;
           }
-          if ((c === delimCode || c === LF) && v === v) {
-            values[count] = v;
+          if ((c === delimCode || c === LF) && values[count] === values[count]) {
             starts[count] = from;
             ends[count] = end;
             count++;

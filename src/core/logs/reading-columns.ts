@@ -27,6 +27,13 @@ function grow(a: Float64Array, n: number): Float64Array {
   return b;
 }
 
+/** Slots of the numbers of one reading in the array given to pushRow. */
+export const ROW_TIME = 0;
+export const ROW_FIELD = 1;
+export const ROW_LAT = 2;
+export const ROW_LON = 3;
+export const ROW_HEIGHT = 4;
+
 /** `values[0, count)` in a new array of `n` entries (the rest ""). */
 function roomFor(values: string[], count: number, n: number): string[] {
   const out = new Array<string>(n).fill("");
@@ -40,6 +47,7 @@ export class ReadingColumnsBuilder {
   private capacity: number;
   /** Room was set by reserve() (a hint), not by doubling. */
   private reserved = false;
+  private readonly scratch = new Float64Array(5);
   timeMs: Float64Array;
   fieldNt: Float64Array;
   latDeg: Float64Array | null;
@@ -90,14 +98,28 @@ export class ReadingColumnsBuilder {
   }
 
   push(timeMs: number, fieldNt: number, latDeg: number, lonDeg: number, heightM: number, line: string, station: string, sourceLine: number): void {
+    const v = this.scratch;
+    v[ROW_TIME] = timeMs;
+    v[ROW_FIELD] = fieldNt;
+    v[ROW_LAT] = latDeg;
+    v[ROW_LON] = lonDeg;
+    v[ROW_HEIGHT] = heightM;
+    this.pushRow(v, line, station, sourceLine);
+  }
+
+  /**
+   * One reading whose numbers are in `values` at ROW_TIME … ROW_HEIGHT: the same as push, without
+   * passing five doubles (each boxed on the heap when the call is not inlined).
+   */
+  pushRow(values: Float64Array, line: string, station: string, sourceLine: number): void {
     this.ensure();
     const i = this.count++;
-    this.timeMs[i] = timeMs;
-    this.fieldNt[i] = fieldNt;
-    if (this.latDeg) this.latDeg[i] = latDeg;
-    if (this.lonDeg) this.lonDeg[i] = lonDeg;
-    if (this.heightM) this.heightM[i] = heightM;
-    if (this.line) this.line[i] = line; // appends, or fills reserved room
+    this.timeMs[i] = values[ROW_TIME];
+    this.fieldNt[i] = values[ROW_FIELD];
+    if (this.latDeg) this.latDeg[i] = values[ROW_LAT];
+    if (this.lonDeg) this.lonDeg[i] = values[ROW_LON];
+    if (this.heightM) this.heightM[i] = values[ROW_HEIGHT];
+    if (this.line) this.line[i] = line;
     if (this.station) this.station[i] = station;
     this.sourceLine[i] = sourceLine;
   }
