@@ -129,6 +129,7 @@ const NO_BYTES = new Uint8Array(0);
 const LOOKS_LIKE_DATA = /^[\s\d.,:+\-/TZ]+$/;
 const INITIAL_CELLS = 64;
 const KIND_NUMBER = 1;
+const KIND_TIME = 2;
 const ROW_PREV_TIME = 5;
 // Module-level copies for the hot loop: an imported binding may be read through a getter per use
 // (CommonJS interop of the TypeScript loader), a local constant is not.
@@ -197,6 +198,8 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
   let cellValue = new Float64Array(INITIAL_CELLS);
   // per column: KIND_NUMBER for the field, lat, lon and height columns (set with the header)
   let cellKinds = new Uint8Array(0);
+  // length of the last time cell cut by scanning: the guess for the next row's
+  let timeChars = 0;
   let cellCount = 0;
 
   // column indices (−1 absent), set with the header
@@ -274,6 +277,7 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
     const numeric = [iField, iLat, iLon, iHeight];
     cellKinds = new Uint8Array(Math.max(header.length, ...numeric) + 1);
     for (const i of numeric) if (i >= 0) cellKinds[i] = KIND_NUMBER;
+    if (iDate < 0 && iTime >= 0 && cellKinds[iTime] === 0) cellKinds[iTime] = KIND_TIME;
     builder = newBuilder();
   }
 
@@ -317,7 +321,8 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
           timeMs = reader.parse(timeText); // a time column that already holds the date
         }
       } else {
-        timeMs = reader.parseBytes(src, timeFrom, timeTo);
+        timeMs = cellValue[iTime];
+        if (timeMs !== timeMs) timeMs = reader.parseBytes(src, timeFrom, timeTo); // not read with the cut
       }
     } catch (e) {
       if (!(e instanceof TimestampError)) throw e;
@@ -482,15 +487,17 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
    * Unquoted text with a one-character delimiter: each line is cut into cells and handed to
    * processRow, in one pass over the bytes. A cell of a numeric column (field, lat, lon, height) is
    * read as a number in the same pass when it is a plain decimal ending at the delimiter, line end
-   * or a CRLF (see parseDecimalBytes for the exact-result rule); any other form (padding, exponent,
-   * long mantissa, garbage) is left for processRow's full reading. Padding is trimmed only where a
-   * cell starts or ends with a blank or CR. Stops at the first line holding a quote (every byte is
-   * seen either by the number reading, which takes no quote, or by the cell scan) and returns that
-   * line's offset, its row unread; −1 when every line was read.
+   * or a CRLF (see readDecimalPrefix for the exact-result rule), and the time cell (no separate
+   * date column) when it has the reader's fixed layout; any other form (padding, exponent, long
+   * mantissa, another time format, garbage) is left for processRow's full reading. Padding is
+   * trimmed only where a cell starts or ends with a blank or CR. Stops at the first line holding a
+   * quote (every byte is seen either by those readers, which take no quote, or by the cell scan)
+   * and returns that line's offset, its row unread; −1 when every line was read.
    */
   function scanDelimited(block: Uint8Array, delimCode: number): number {
     const n = block.length;
     const pointComma = decimalComma;
+    const times = reader;
     let starts = cellStart;
     let ends = cellEnd;
     let values = cellValue;
@@ -510,16 +517,23 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
         }
         let from = k;
         let c = 0;
-        if (count < kindCount && kinds[count] === KIND_NUMBER) {
-          // plain decimal read in place: [+-]digits[.digits], then the cell's end
-          let i = readDecimal(block, k, n, pointComma, values, count);
+        const kind = count < kindCount ? kinds[count] : 0;
+        if (kind !== 0) {
+          // A number (plain decimal) or a timestamp read in place, the cell's end found on the way:
+          // a number ends where its digits do; a timestamp is guessed as long as the last one and
+          // taken when it has the fixed layout, which checks every byte (so it holds no delimiter,
+          // line end or quote). Either must be followed by the delimiter, the line end or a CRLF.
+          let i = kind === KIND_TIME ? k + timeChars : readDecimal(block, k, n, pointComma, values, count);
           c = i < n ? block[i] : LF;
-          let end = i;
+          const end = i;
           if (c === CR && (i + 1 >= n || block[i + 1] === LF)) {
             i++; // CRLF: the CR is padding of the last cell
             c = LF;
           }
-          if ((c === delimCode || c === LF) && values[count] === values[count]) {
+          const read =
+            (c === delimCode || c === LF) &&
+            (kind === KIND_TIME ? timeChars > 0 && end <= n && times.readFixedBytes(block, k, end, values, count) : values[count] === values[count]);
+          if (read) {
             starts[count] = from;
             ends[count] = end;
             count++;
@@ -546,6 +560,7 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
         if (to > from && (block[to - 1] === 32 || block[to - 1] === 9 || block[to - 1] === CR)) {
           while (to > from && isPadding(block[to - 1])) to--;
         }
+        if (kind === KIND_TIME) timeChars = to - from;
         starts[count] = from;
         ends[count] = to;
         count++;

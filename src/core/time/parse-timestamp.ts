@@ -44,6 +44,12 @@ export interface TimestampReader {
   parse(text: string): number;
   /** The timestamp in bytes[start, end) (UTF-8) without building a string first; throws TimestampError. */
   parseBytes(bytes: Uint8Array, start: number, end: number): number;
+  /**
+   * The fast path of parseBytes alone: when bytes[start, end) is exactly the fixed layout
+   * `yyyy-mm-ddThh:mm:ss[.f…][Z]` (every byte checked, so the span holds no delimiter), its instant
+   * goes to out[outAt] and the result is true (the value parseBytes gives); false otherwise, nothing thrown.
+   */
+  readFixedBytes(bytes: Uint8Array, start: number, end: number, out: Float64Array, outAt: number): boolean;
   /** Separate date and time columns → UTC ms; throws TimestampError. */
   parseDateAndTime(dateText: string, timeText: string): number;
 }
@@ -312,7 +318,13 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
     throw new TimestampError("unrecognised_format", both, `unreadable date and time "${both}" (expected e.g. 2026-05-04 and 09:15:00)`);
   }
 
-  return { parse, parseBytes, parseDateAndTime };
+  function readFixedBytes(bytes: Uint8Array, at: number, end: number, out: Float64Array, outAt: number): boolean {
+    if (!readFixedLayout(bytes, at, end)) return false;
+    out[outAt] = fixedResult[0];
+    return true;
+  }
+
+  return { parse, parseBytes, readFixedBytes, parseDateAndTime };
 }
 
 /** One-off convenience; build a reader with createTimestampReader for many rows. */
