@@ -64,8 +64,10 @@ export class ReadingColumnsBuilder {
     this.latDeg = presence.position ? new Float64Array(this.capacity) : null;
     this.lonDeg = presence.position ? new Float64Array(this.capacity) : null;
     this.heightM = presence.height ? new Float64Array(this.capacity) : null;
-    this.line = presence.line ? [] : null;
-    this.station = presence.station ? [] : null;
+    // holey from the start, as reserve()'s filled arrays are: one array shape, so code optimised
+    // before a reserve is not thrown away after it
+    this.line = presence.line ? new Array<string>(0) : null;
+    this.station = presence.station ? new Array<string>(0) : null;
     this.sourceLine = new Uint32Array(this.capacity);
   }
 
