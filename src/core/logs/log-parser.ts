@@ -20,12 +20,18 @@ import { createTimestampReader, TimestampError, type TimeReadOptions, type Times
 import { resolveColumnMapping, type ColumnMappingResult, type ExplicitColumnMapping } from "./column-mapping";
 import { detectDelimiter, type Delimiter } from "./delimiter";
 import { LogFormatError } from "./log-format-error";
-import { parseDecimalBytes } from "./decimal-span";
-import { ReadingColumnsBuilder, type LogReadings } from "./reading-columns";
+import { parseDecimalBytes, readDecimalPrefix } from "./decimal-span";
+import { ReadingColumnsBuilder, ROW_FIELD, ROW_HEIGHT, ROW_LAT, ROW_LON, ROW_TIME, type LogReadings } from "./reading-columns";
 
 /** Plausible total field at the Earth's surface, nT (IGRF surface range is roughly 22 000–67 000; practice adds margin). */
 export const DEFAULT_FIELD_RANGE_NT = { minNt: 10_000, maxNt: 120_000 } as const;
 const DEFAULT_MAX_REPORTED_ROWS = 10_000;
+/** Most readings a size hint may reserve room for (beyond it the columns grow by doubling). */
+const MAX_HINTED_ROWS = 1 << 22;
+/** Room reserved over the lines estimated from the size hint. */
+const HINT_MARGIN = 1.02;
+/** Lines read before the bytes per line are taken as the file's. */
+const HINT_MIN_LINES = 256;
 const MAX_VALUE_CHARS = 80;
 
 export type RejectReason =
@@ -60,6 +66,12 @@ export interface LogParseOptions extends TimeReadOptions {
   delimiter?: Delimiter;
   /** Keep at most this many rejected rows and issues in detail (counts stay exact); default 10 000. */
   maxReportedRows?: number;
+  /**
+   * Size of the whole log in bytes when known (a file): the reading columns are sized once, from
+   * it and the bytes per line of the first block read, instead of grown by doubling. A hint only:
+   * any value, too small or too large, gives the same result.
+   */
+  sizeHintBytes?: number;
 }
 
 export interface LogParseSummary {
@@ -116,6 +128,13 @@ function readNumber(s: string, decimalComma: boolean): number {
 const NO_BYTES = new Uint8Array(0);
 const LOOKS_LIKE_DATA = /^[\s\d.,:+\-/TZ]+$/;
 const INITIAL_CELLS = 64;
+const KIND_NUMBER = 1;
+const KIND_TIME = 2;
+const ROW_PREV_TIME = 5;
+// Module-level copies for the hot loop: an imported binding may be read through a getter per use
+// (CommonJS interop of the TypeScript loader), a local constant is not.
+const readDecimal = readDecimalPrefix;
+const SLOT_TIME = ROW_TIME, SLOT_FIELD = ROW_FIELD, SLOT_LAT = ROW_LAT, SLOT_LON = ROW_LON, SLOT_HEIGHT = ROW_HEIGHT;
 const LF = 10;
 const CR = 13;
 const QUOTE = 34;
@@ -139,6 +158,7 @@ function concatBytes(a: Uint8Array, b: Uint8Array): Uint8Array {
 export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogStreamSinks = {}): LogStreamParser {
   const range = options.fieldRangeNt ?? DEFAULT_FIELD_RANGE_NT;
   if (!(range.minNt < range.maxNt)) throw new RangeError("plausible field range needs minNt < maxNt");
+  const minNt = range.minNt, maxNt = range.maxNt;
   const maxReported = options.maxReportedRows ?? DEFAULT_MAX_REPORTED_ROWS;
   const reader: TimestampReader = createTimestampReader(options);
 
@@ -157,7 +177,15 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
   const rejected: RowProblem<RejectReason>[] = [];
   const issues: RowProblem<IssueReason>[] = [];
   const warnings: string[] = [];
-  let prevTimeMs = NaN;
+  // Per-row numbers live in typed slots: a double kept in a closure variable or passed to a call
+  // that is not inlined is boxed, one heap allocation per row.
+  // row[ROW_*]: the reading being built; row[ROW_PREV_TIME]: time of the previous kept row
+  const row = new Float64Array(6);
+  row[ROW_PREV_TIME] = NaN;
+  // size hint: bytes pushed so far, and whether room was reserved already
+  const sizeHintBytes = options.sizeHintBytes;
+  let bytesPushed = 0;
+  let sized = !(sizeHintBytes !== undefined && sizeHintBytes > 0 && Number.isFinite(sizeHintBytes)) || sinks.onBatch !== undefined;
   let lastLine = "";
   let lastLineBytes = NO_BYTES;
   let lastStation = "";
@@ -166,6 +194,12 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
   // The current row: cell i is src[cellStart[i], cellEnd[i]) (UTF-8 bytes), padding trimmed.
   let cellStart = new Int32Array(INITIAL_CELLS);
   let cellEnd = new Int32Array(INITIAL_CELLS);
+  // cellValue[i]: the number of cell i when a numeric column's cell was read during the cut, else NaN
+  let cellValue = new Float64Array(INITIAL_CELLS);
+  // per column: KIND_NUMBER for the field, lat, lon and height columns (set with the header)
+  let cellKinds = new Uint8Array(0);
+  // length of the last time cell cut by scanning: the guess for the next row's
+  let timeChars = 0;
   let cellCount = 0;
 
   // column indices (−1 absent), set with the header
@@ -175,22 +209,30 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
   function pushCell(src: Uint8Array, from: number, to: number): void {
     if (from < to && isPadding(src[from])) while (from < to && isPadding(src[from])) from++;
     if (to > from && isPadding(src[to - 1])) while (to > from && isPadding(src[to - 1])) to--;
-    if (cellCount === cellStart.length) {
-      const a = new Int32Array(cellCount * 2), b = new Int32Array(cellCount * 2);
-      a.set(cellStart);
-      b.set(cellEnd);
-      cellStart = a;
-      cellEnd = b;
-    }
+    if (cellCount === cellStart.length) growCells();
     cellStart[cellCount] = from;
     cellEnd[cellCount] = to;
+    cellValue[cellCount] = NaN;
     cellCount++;
+  }
+
+  function growCells(): void {
+    const a = new Int32Array(cellStart.length * 2), b = new Int32Array(cellStart.length * 2);
+    const v = new Float64Array(cellStart.length * 2);
+    a.set(cellStart);
+    b.set(cellEnd);
+    v.set(cellValue);
+    cellStart = a;
+    cellEnd = b;
+    cellValue = v;
   }
 
   const blank = (i: number) => i >= cellCount || cellStart[i] === cellEnd[i];
   const textOf = (src: Uint8Array, i: number) => (i < cellCount ? UTF8_DECODER.decode(src.subarray(cellStart[i], cellEnd[i])) : "");
 
   function numberOf(src: Uint8Array, i: number): number {
+    const read = cellValue[i];
+    if (read === read) return read;
     const v = parseDecimalBytes(src, cellStart[i], cellEnd[i], decimalComma);
     return v === v ? v : readNumber(textOf(src, i), decimalComma);
   }
@@ -232,6 +274,10 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
     const names = header;
     nameOf = (i) => names[i] ?? `column ${i + 1}`;
     decimalComma = delimiter !== ",";
+    const numeric = [iField, iLat, iLon, iHeight];
+    cellKinds = new Uint8Array(Math.max(header.length, ...numeric) + 1);
+    for (const i of numeric) if (i >= 0) cellKinds[i] = KIND_NUMBER;
+    if (iDate < 0 && iTime >= 0 && cellKinds[iTime] === 0) cellKinds[iTime] = KIND_TIME;
     builder = newBuilder();
   }
 
@@ -241,15 +287,15 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
 
   /** The row held in cellStart/cellEnd over src. */
   function processRow(src: Uint8Array, line: number): void {
-    let allBlank = true;
-    for (let i = 0; i < cellCount; i++) {
-      if (cellStart[i] !== cellEnd[i]) {
-        allBlank = false;
-        break;
-      }
+    const count = cellCount, starts = cellStart, ends = cellEnd;
+    if (count === 0) return;
+    if (starts[0] === ends[0]) {
+      let i = 1;
+      while (i < count && starts[i] === ends[i]) i++;
+      if (i === count) return; // blank line
+    } else if (src[starts[0]] === HASH) {
+      return; // comment
     }
-    if (allBlank) return;
-    if (!blank(0) && src[cellStart[0]] === HASH) return;
     if (header === null) {
       const cells: string[] = [];
       for (let i = 0; i < cellCount; i++) cells.push(textOf(src, i));
@@ -265,6 +311,7 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
       reject(line, col, textOf(src, col), "missing_time", "no time");
       return;
     }
+    const timeFrom = starts[iTime], timeTo = ends[iTime];
     try {
       if (iDate >= 0) {
         const timeText = textOf(src, iTime);
@@ -274,7 +321,8 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
           timeMs = reader.parse(timeText); // a time column that already holds the date
         }
       } else {
-        timeMs = reader.parseBytes(src, cellStart[iTime], cellEnd[iTime]);
+        timeMs = cellValue[iTime];
+        if (timeMs !== timeMs) timeMs = reader.parseBytes(src, timeFrom, timeTo); // not read with the cut
       }
     } catch (e) {
       if (!(e instanceof TimestampError)) throw e;
@@ -288,13 +336,15 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
       reject(line, iField, "", "missing_field", "no total-field value");
       return;
     }
-    const fieldNt = numberOf(src, iField);
+    const values = cellValue;
+    let fieldNt = values[iField];
+    if (fieldNt !== fieldNt) fieldNt = numberOf(src, iField);
     if (fieldNt !== fieldNt) {
       const t = textOf(src, iField);
       reject(line, iField, t, "non_numeric_field", `total field "${clip(t)}" is not a number`);
       return;
     }
-    if (fieldNt < range.minNt || fieldNt > range.maxNt) {
+    if (fieldNt < minNt || fieldNt > maxNt) {
       reject(line, iField, textOf(src, iField), "field_out_of_range", `total field ${fieldNt} nT is outside the plausible ${range.minNt}–${range.maxNt} nT`);
       return;
     }
@@ -304,8 +354,10 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
     if (iLat >= 0) {
       const latEmpty = blank(iLat), lonEmpty = blank(iLon);
       if (!latEmpty || !lonEmpty) {
-        latDeg = latEmpty ? NaN : numberOf(src, iLat);
-        lonDeg = lonEmpty ? NaN : numberOf(src, iLon);
+        latDeg = latEmpty ? NaN : values[iLat];
+        if (latDeg !== latDeg && !latEmpty) latDeg = numberOf(src, iLat);
+        lonDeg = lonEmpty ? NaN : values[iLon];
+        if (lonDeg !== lonDeg && !lonEmpty) lonDeg = numberOf(src, iLon);
         if (latDeg !== latDeg) {
           const t = textOf(src, iLat);
           reject(line, iLat, t, "non_numeric_position", `latitude "${clip(t)}" is not a number`);
@@ -327,7 +379,8 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
       }
     }
     if (iHeight >= 0 && !blank(iHeight)) {
-      heightM = numberOf(src, iHeight);
+      heightM = values[iHeight];
+      if (heightM !== heightM) heightM = numberOf(src, iHeight);
       if (heightM !== heightM) {
         const t = textOf(src, iHeight);
         reject(line, iHeight, t, "non_numeric_height", `height "${clip(t)}" is not a number`);
@@ -335,95 +388,192 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
       }
     }
 
+    const prevTimeMs = row[ROW_PREV_TIME];
     if (timeMs < prevTimeMs) {
       issue(line, iTime, textOf(src, iTime), "time_backwards", `time goes backwards by ${((prevTimeMs - timeMs) / 1000).toFixed(3)} s`);
     } else if (timeMs === prevTimeMs) {
       issue(line, iTime, textOf(src, iTime), "duplicate_time", "same time as the previous reading");
     }
-    prevTimeMs = timeMs;
+    row[ROW_PREV_TIME] = timeMs;
     // text cells: consecutive equal values share one string (a survey line spans thousands of rows)
+    let lineName = "";
     if (iLine >= 0) {
       if (blank(iLine)) {
         lastLine = "";
         lastLineBytes = NO_BYTES; // else the value before the blank would still count as current
       } else if (!cellEquals(src, iLine, lastLineBytes)) {
-        lastLineBytes = src.slice(cellStart[iLine], cellEnd[iLine]);
+        lastLineBytes = src.slice(starts[iLine], ends[iLine]);
         lastLine = UTF8_DECODER.decode(lastLineBytes);
+        lineName = lastLine;
+      } else {
+        lineName = lastLine;
       }
     }
+    let stationName = "";
     if (iStation >= 0) {
       if (blank(iStation)) {
         lastStation = "";
         lastStationBytes = NO_BYTES;
       } else if (!cellEquals(src, iStation, lastStationBytes)) {
-        lastStationBytes = src.slice(cellStart[iStation], cellEnd[iStation]);
+        lastStationBytes = src.slice(starts[iStation], ends[iStation]);
         lastStation = UTF8_DECODER.decode(lastStationBytes);
+        stationName = lastStation;
+      } else {
+        stationName = lastStation;
       }
     }
-    builder!.push(timeMs, fieldNt, latDeg, lonDeg, heightM, iLine >= 0 && !blank(iLine) ? lastLine : "", iStation >= 0 && !blank(iStation) ? lastStation : "", line);
+    row[SLOT_TIME] = timeMs;
+    row[SLOT_FIELD] = fieldNt;
+    row[SLOT_LAT] = latDeg;
+    row[SLOT_LON] = lonDeg;
+    row[SLOT_HEIGHT] = heightM;
+    builder!.pushRow(row, lineName, stationName, line);
   }
 
   /**
    * Complete lines (no trailing line feed) as UTF-8 bytes. Unquoted delimited text is split here in
-   * one pass over the bytes, without a string per cell; a block holding quotes goes through
-   * papaparse, whose cells are joined and re-encoded so the same row code reads them.
+   * one pass over the bytes, without a string per cell; from the first line holding a quote on, the
+   * block goes through papaparse, whose cells are joined and re-encoded so the same row code reads
+   * them. With `mayWait`, a quoted part whose quotes do not pair up is not read: its offset in the
+   * block is returned so the caller keeps it for more text; otherwise the result is −1.
    */
-  function processBlock(block: Uint8Array): void {
+  function processBlock(block: Uint8Array, mayWait: boolean): number {
     const n = block.length;
     if (n === 0) {
       lineNo++; // one empty line
-      return;
-    }
-    if (delimiter !== "whitespace" && block.indexOf(QUOTE) >= 0) {
-      // papaparse accepts blanks or a CR between a closing quote and a line feed, but at the very
-      // end of its input it keeps the quote (`"10000"\r` → `10000"\r`): a CRLF file's row ending in
-      // a quoted cell, cut here at its LF, would lose its number. Trailing padding is dropped first
-      // (pushCell trims it from the last cell anyway).
-      let end = n;
-      while (end > 0 && isPadding(block[end - 1])) end--;
-      processQuotedBlock(UTF8_DECODER.decode(block.subarray(0, end)));
-      return;
+      return -1;
     }
     if (delimiter === "whitespace") {
-      let at = 0;
-      while (at <= n) {
-        let nl = block.indexOf(LF, at);
-        if (nl < 0) nl = n;
-        lineNo++;
-        cellCount = 0;
-        let k = at;
-        while (k < nl) {
-          while (k < nl && isPadding(block[k])) k++;
-          if (k >= nl) break;
-          const from = k;
-          while (k < nl && !isPadding(block[k])) k++;
-          pushCell(block, from, k);
+      processWhitespaceBlock(block);
+      return -1;
+    }
+    const quotedFrom = scanDelimited(block, delimiter.charCodeAt(0));
+    if (quotedFrom < 0) return -1;
+    const quoted = block.subarray(quotedFrom);
+    if (mayWait && quotedRunOn(quoted)) return quotedFrom;
+    // papaparse accepts blanks or a CR between a closing quote and a line feed, but at the very
+    // end of its input it keeps the quote (`"10000"\r` → `10000"\r`): a CRLF file's row ending in
+    // a quoted cell, cut here at its LF, would lose its number. Trailing padding is dropped first
+    // (pushCell trims it from the last cell anyway).
+    let end = quoted.length;
+    while (end > 0 && isPadding(quoted[end - 1])) end--;
+    processQuotedBlock(UTF8_DECODER.decode(quoted.subarray(0, end)));
+    return -1;
+  }
+
+  /** Lines split on runs of blanks (tabs, spaces), quotes read as text. */
+  function processWhitespaceBlock(block: Uint8Array): void {
+    const n = block.length;
+    let at = 0;
+    while (at <= n) {
+      let nl = block.indexOf(LF, at);
+      if (nl < 0) nl = n;
+      lineNo++;
+      cellCount = 0;
+      let k = at;
+      while (k < nl) {
+        while (k < nl && isPadding(block[k])) k++;
+        if (k >= nl) break;
+        const from = k;
+        while (k < nl && !isPadding(block[k])) k++;
+        pushCell(block, from, k);
+      }
+      if (cellCount > 0) processRow(block, lineNo);
+      at = nl + 1;
+    }
+  }
+
+  /**
+   * Unquoted text with a one-character delimiter: each line is cut into cells and handed to
+   * processRow, in one pass over the bytes. A cell of a numeric column (field, lat, lon, height) is
+   * read as a number in the same pass when it is a plain decimal ending at the delimiter, line end
+   * or a CRLF (see readDecimalPrefix for the exact-result rule), and the time cell (no separate
+   * date column) when it has the reader's fixed layout; any other form (padding, exponent, long
+   * mantissa, another time format, garbage) is left for processRow's full reading. Padding is
+   * trimmed only where a cell starts or ends with a blank or CR. Stops at the first line holding a
+   * quote (every byte is seen either by those readers, which take no quote, or by the cell scan)
+   * and returns that line's offset, its row unread; −1 when every line was read.
+   */
+  function scanDelimited(block: Uint8Array, delimCode: number): number {
+    const n = block.length;
+    const pointComma = decimalComma;
+    const times = reader;
+    let starts = cellStart;
+    let ends = cellEnd;
+    let values = cellValue;
+    let at = 0;
+    while (at <= n) {
+      const kinds = cellKinds; // set by the header line, which this loop may have just read
+      const kindCount = kinds.length;
+      let count = 0;
+      let k = at;
+      for (;;) {
+        if (count === starts.length) {
+          cellCount = count;
+          growCells();
+          starts = cellStart;
+          ends = cellEnd;
+          values = cellValue;
         }
-        if (cellCount > 0) processRow(block, lineNo);
-        at = nl + 1;
+        let from = k;
+        let c = 0;
+        const kind = count < kindCount ? kinds[count] : 0;
+        if (kind !== 0) {
+          // A number (plain decimal) or a timestamp read in place, the cell's end found on the way:
+          // a number ends where its digits do; a timestamp is guessed as long as the last one and
+          // taken when it has the fixed layout, which checks every byte (so it holds no delimiter,
+          // line end or quote). Either must be followed by the delimiter, the line end or a CRLF.
+          let i = kind === KIND_TIME ? k + timeChars : readDecimal(block, k, n, pointComma, values, count);
+          c = i < n ? block[i] : LF;
+          const end = i;
+          if (c === CR && (i + 1 >= n || block[i + 1] === LF)) {
+            i++; // CRLF: the CR is padding of the last cell
+            c = LF;
+          }
+          const read =
+            (c === delimCode || c === LF) &&
+            (kind === KIND_TIME ? timeChars > 0 && end <= n && times.readFixedBytes(block, k, end, values, count) : values[count] === values[count]);
+          if (read) {
+            starts[count] = from;
+            ends[count] = end;
+            count++;
+            k = i;
+            if (k >= n || c === LF) break;
+            k++;
+            continue;
+          }
+          values[count] = NaN; // another form: read in full by processRow
+        }
+        while (k < n) {
+          c = block[k];
+          if (c === delimCode || c === LF) break;
+          if (c === QUOTE) {
+            cellCount = 0;
+            return at;
+          }
+          k++;
+        }
+        let to = k;
+        if (from < to && (block[from] === 32 || block[from] === 9 || block[from] === CR)) {
+          while (from < to && isPadding(block[from])) from++;
+        }
+        if (to > from && (block[to - 1] === 32 || block[to - 1] === 9 || block[to - 1] === CR)) {
+          while (to > from && isPadding(block[to - 1])) to--;
+        }
+        if (kind === KIND_TIME) timeChars = to - from;
+        starts[count] = from;
+        ends[count] = to;
+        count++;
+        if (k >= n || c === LF) break;
+        k++;
       }
-      return;
+      cellCount = count;
+      lineNo++;
+      processRow(block, lineNo);
+      at = k + 1;
     }
-    const delimCode = delimiter.charCodeAt(0);
-    let from = 0;
     cellCount = 0;
-    for (let k = 0; k < n; k++) {
-      const c = block[k];
-      if (c === delimCode) {
-        pushCell(block, from, k);
-        from = k + 1;
-      } else if (c === LF) {
-        pushCell(block, from, k);
-        lineNo++;
-        processRow(block, lineNo);
-        from = k + 1;
-        cellCount = 0;
-      }
-    }
-    pushCell(block, from, n); // the last line has no line feed
-    lineNo++;
-    processRow(block, lineNo);
-    cellCount = 0;
+    return -1;
   }
 
   function processQuotedBlock(text: string): void {
@@ -478,15 +628,25 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
     const cut = final ? pending.length : pending.lastIndexOf(LF);
     if (cut < 0) return;
     const block = pending.subarray(0, cut);
-    if (!final && delimiter !== "whitespace" && block.indexOf(QUOTE) >= 0) {
-      let quotes = 0;
-      for (let k = block.indexOf(QUOTE); k >= 0; k = block.indexOf(QUOTE, k + 1)) quotes++;
-      if (quotes % 2 === 1) return; // a quoted field runs on: wait for more text
+    const tail = final ? new Uint8Array(0) : pending.subarray(cut + 1);
+    if (block.length === 0 && final) {
+      pending = tail;
+      return;
     }
-    pending = final ? new Uint8Array(0) : pending.slice(cut + 1); // a copy: never keep the caller's chunk
-    if (block.length === 0 && final) return;
-    processBlock(block);
+    const waitFrom = processBlock(block, !final);
+    // a copy: never keep the caller's chunk; a quoted field that runs on waits for more text
+    pending = waitFrom >= 0 ? pending.slice(waitFrom) : tail.slice();
+    if (!sized) reserveFromHint();
     flushBatch();
+  }
+
+  /** Room for the readings the size hint promises, at the bytes per line read so far (once). */
+  function reserveFromHint(): void {
+    const readBytes = bytesPushed - pending.length;
+    if (builder === null || lineNo < HINT_MIN_LINES || readBytes <= 0) return; // too few lines to tell
+    sized = true;
+    const lines = (sizeHintBytes! / readBytes) * lineNo * HINT_MARGIN;
+    builder.reserve(Math.min(MAX_HINTED_ROWS, Math.ceil(lines)));
   }
 
   function flushBatch(): void {
@@ -530,6 +690,7 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
   function pushBytes(chunk: Uint8Array): void {
     // a plain Uint8Array view (not a Node Buffer subclass) keeps the byte loops monomorphic
     const bytes = new Uint8Array(chunk.buffer, chunk.byteOffset, chunk.byteLength);
+    bytesPushed += bytes.length;
     let rest = bytes;
     if (pending.length > 0 && started && !atStreamStart && delimiter !== "whitespace") {
       // finish the carried-over partial line with the head of this chunk, so the chunk itself is
@@ -547,7 +708,7 @@ export function createLogStreamParser(options: LogParseOptions = {}, sinks: LogS
         return;
       }
       pending = new Uint8Array(0);
-      processBlock(line);
+      processBlock(line, false);
       rest = bytes.subarray(firstLf + 1);
     }
     pending = pending.length === 0 ? rest : concatBytes(pending, rest);

@@ -27,10 +27,27 @@ function grow(a: Float64Array, n: number): Float64Array {
   return b;
 }
 
+/** Slots of the numbers of one reading in the array given to pushRow. */
+export const ROW_TIME = 0;
+export const ROW_FIELD = 1;
+export const ROW_LAT = 2;
+export const ROW_LON = 3;
+export const ROW_HEIGHT = 4;
+
+/** `values[0, count)` in a new array of `n` entries (the rest ""). */
+function roomFor(values: string[], count: number, n: number): string[] {
+  const out = new Array<string>(n).fill("");
+  for (let i = 0; i < count; i++) out[i] = values[i];
+  return out;
+}
+
 /** Append-only builder with doubling typed arrays. */
 export class ReadingColumnsBuilder {
   count = 0;
   private capacity: number;
+  /** Room was set by reserve() (a hint), not by doubling. */
+  private reserved = false;
+  private readonly scratch = new Float64Array(5);
   timeMs: Float64Array;
   fieldNt: Float64Array;
   latDeg: Float64Array | null;
@@ -47,14 +64,30 @@ export class ReadingColumnsBuilder {
     this.latDeg = presence.position ? new Float64Array(this.capacity) : null;
     this.lonDeg = presence.position ? new Float64Array(this.capacity) : null;
     this.heightM = presence.height ? new Float64Array(this.capacity) : null;
-    this.line = presence.line ? [] : null;
-    this.station = presence.station ? [] : null;
+    // holey from the start, as reserve()'s filled arrays are: one array shape, so code optimised
+    // before a reserve is not thrown away after it
+    this.line = presence.line ? new Array<string>(0) : null;
+    this.station = presence.station ? new Array<string>(0) : null;
     this.sourceLine = new Uint32Array(this.capacity);
+  }
+
+  /** Make room for `capacity` readings in one step (a size hint: pushing past it still works). */
+  reserve(capacity: number): void {
+    if (capacity <= this.capacity) return;
+    const n = Math.floor(capacity);
+    this.resize(n);
+    this.reserved = true;
+    // text columns too: filling an array once is cheaper than growing it push by push
+    if (this.line) this.line = roomFor(this.line, this.count, n);
+    if (this.station) this.station = roomFor(this.station, this.count, n);
   }
 
   private ensure(): void {
     if (this.count < this.capacity) return;
-    const n = this.capacity * 2;
+    this.resize(this.capacity * 2);
+  }
+
+  private resize(n: number): void {
     this.timeMs = grow(this.timeMs, n);
     this.fieldNt = grow(this.fieldNt, n);
     if (this.latDeg) this.latDeg = grow(this.latDeg, n);
@@ -67,31 +100,52 @@ export class ReadingColumnsBuilder {
   }
 
   push(timeMs: number, fieldNt: number, latDeg: number, lonDeg: number, heightM: number, line: string, station: string, sourceLine: number): void {
+    const v = this.scratch;
+    v[ROW_TIME] = timeMs;
+    v[ROW_FIELD] = fieldNt;
+    v[ROW_LAT] = latDeg;
+    v[ROW_LON] = lonDeg;
+    v[ROW_HEIGHT] = heightM;
+    this.pushRow(v, line, station, sourceLine);
+  }
+
+  /**
+   * One reading whose numbers are in `values` at ROW_TIME … ROW_HEIGHT: the same as push, without
+   * passing five doubles (each boxed on the heap when the call is not inlined).
+   */
+  pushRow(values: Float64Array, line: string, station: string, sourceLine: number): void {
     this.ensure();
     const i = this.count++;
-    this.timeMs[i] = timeMs;
-    this.fieldNt[i] = fieldNt;
-    if (this.latDeg) this.latDeg[i] = latDeg;
-    if (this.lonDeg) this.lonDeg[i] = lonDeg;
-    if (this.heightM) this.heightM[i] = heightM;
-    if (this.line) this.line.push(line);
-    if (this.station) this.station.push(station);
+    this.timeMs[i] = values[ROW_TIME];
+    this.fieldNt[i] = values[ROW_FIELD];
+    if (this.latDeg) this.latDeg[i] = values[ROW_LAT];
+    if (this.lonDeg) this.lonDeg[i] = values[ROW_LON];
+    if (this.heightM) this.heightM[i] = values[ROW_HEIGHT];
+    if (this.line) this.line[i] = line;
+    if (this.station) this.station[i] = station;
     this.sourceLine[i] = sourceLine;
   }
 
-  /** Trimmed views of what was pushed. */
+  /**
+   * Trimmed views of what was pushed; copies instead when a reserve() left over half the room unused
+   * (a size hint that was too large), so the spare room is not kept alive by the result.
+   */
   build(): LogReadings {
     const n = this.count;
+    const copy = this.reserved && n < this.capacity / 2;
+    if (this.line && this.line.length > n) this.line.length = n; // reserved room not used
+    if (this.station && this.station.length > n) this.station.length = n;
+    const trim = <T extends Float64Array | Uint32Array>(a: T): T => (copy ? (a.slice(0, n) as T) : (a.subarray(0, n) as T));
     return {
       count: n,
-      timeMs: this.timeMs.subarray(0, n),
-      fieldNt: this.fieldNt.subarray(0, n),
-      latDeg: this.latDeg ? this.latDeg.subarray(0, n) : null,
-      lonDeg: this.lonDeg ? this.lonDeg.subarray(0, n) : null,
-      heightM: this.heightM ? this.heightM.subarray(0, n) : null,
+      timeMs: trim(this.timeMs),
+      fieldNt: trim(this.fieldNt),
+      latDeg: this.latDeg ? trim(this.latDeg) : null,
+      lonDeg: this.lonDeg ? trim(this.lonDeg) : null,
+      heightM: this.heightM ? trim(this.heightM) : null,
       line: this.line,
       station: this.station,
-      sourceLine: this.sourceLine.subarray(0, n),
+      sourceLine: trim(this.sourceLine),
     };
   }
 }

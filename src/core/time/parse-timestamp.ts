@@ -44,6 +44,12 @@ export interface TimestampReader {
   parse(text: string): number;
   /** The timestamp in bytes[start, end) (UTF-8) without building a string first; throws TimestampError. */
   parseBytes(bytes: Uint8Array, start: number, end: number): number;
+  /**
+   * The fast path of parseBytes alone: when bytes[start, end) is exactly the fixed layout
+   * `yyyy-mm-ddThh:mm:ss[.f…][Z]` (every byte checked, so the span holds no delimiter), its instant
+   * goes to out[outAt] and the result is true (the value parseBytes gives); false otherwise, nothing thrown.
+   */
+  readFixedBytes(bytes: Uint8Array, start: number, end: number, out: Float64Array, outAt: number): boolean;
   /** Separate date and time columns → UTC ms; throws TimestampError. */
   parseDateAndTime(dateText: string, timeText: string): number;
 }
@@ -134,6 +140,7 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
     throw new RangeError(`unknown date order "${String(dateOrder)}" (expected dmy or mdy)`);
   }
   const clockOffsetMs = Math.round(clockOffsetS * 1000);
+  const gpsBasis = timeBasis === "gps";
   const localToUtc = createLocalToUtc(timeZone);
   let defaultDate: [number, number, number] | null = null;
   if (options.defaultDate !== undefined) {
@@ -157,11 +164,6 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
     return t;
   }
 
-  /**
-   * Fixed layout `yyyy-mm-ddThh:mm:ss[.f…][Z]` (or `/`, or a space for T) in text[at, end), read by
-   * char codes without slicing; NaN when the span is not that layout or its fields are impossible
-   * (the general path then reads it and reports why).
-   */
   // Minute cache for the fixed layout: logs run in time order, so consecutive rows share
   // `yyyy-mm-ddThh:mm`; the zone offset is looked up once per minute (kept only when the offset is the
   // same at both ends of that minute).
@@ -170,43 +172,48 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
   let cachedZulu = false;
   let cachedMinuteUtcMs = NaN; // UTC of hh:mm:00 before clock offset and time basis
   const scratch = new Uint8Array(SCRATCH_BYTES);
+  // readFixedLayout's result: a typed slot, since a double returned from a call that is not inlined
+  // is boxed on the heap (one allocation per row)
+  const fixedResult = new Float64Array(1);
 
   /**
    * Fixed layout `yyyy-mm-ddThh:mm:ss[.f…][Z]` (or `/`, or a space for T) in bytes[at, end) (ASCII),
-   * read without building a string; NaN when the span is not that layout or its fields are
-   * impossible (the general path then reads it and reports why).
+   * read without building a string, into fixedResult[0]; false when the span is not that layout or
+   * its fields are impossible (the general path then reads it and reports why).
    */
-  function parseFixedLayout(bytes: Uint8Array, at: number, end: number): number {
-    const n = end - at;
-    if (n < 19) return NaN;
-    const c4 = bytes[at + 4];
-    const c10 = bytes[at + 10];
-    if ((c4 !== 45 && c4 !== 47) || bytes[at + 7] !== c4 || (c10 !== 84 && c10 !== 32)) return NaN;
-    if (bytes[at + 13] !== 58 || bytes[at + 16] !== 58) return NaN;
+  function readFixedLayout(bytes: Uint8Array, at: number, end: number): boolean {
+    if (end - at < 19) return false;
     let stop = end;
-    let zulu = false;
-    if (bytes[end - 1] === 90) {
-      zulu = true;
-      stop = end - 1;
-    }
-    const s = digits(bytes, at + 17, 2);
-    if (s < 0 || s > 59) return NaN;
+    const zulu = bytes[end - 1] === 90;
+    if (zulu) stop = end - 1;
+    // seconds and fraction first: they change every row, the minute rarely
+    const s1 = bytes[at + 17] - 48, s0 = bytes[at + 18] - 48;
+    if (bytes[at + 16] !== 58 || s1 < 0 || s1 > 5 || s0 < 0 || s0 > 9) return false;
     let ms = 0;
     if (stop > at + 19) {
-      if (bytes[at + 19] !== 46 || stop === at + 20) return NaN;
+      if (bytes[at + 19] !== 46 || stop === at + 20) return false;
       let four = 0;
-      for (let i = at + 20; i < stop; i++) {
+      let i = at + 20;
+      const fourEnd = stop < at + 24 ? stop : at + 24;
+      for (; i < fourEnd; i++) {
         const c = bytes[i] - 48;
-        if (c < 0 || c > 9) return NaN;
-        if (i < at + 24) four = four * 10 + c;
+        if (c < 0 || c > 9) return false;
+        four = four * 10 + c;
       }
-      for (let k = stop - (at + 20); k < 4; k++) four *= 10;
-      ms = Math.floor(four / 10) + (four % 10 >= 5 ? 1 : 0);
+      for (; i < stop; i++) {
+        const c = bytes[i] - 48;
+        if (c < 0 || c > 9) return false;
+      }
+      for (let k = fourEnd - (at + 20); k < 4; k++) four *= 10;
+      ms = (four - (four % 10)) / 10 + (four % 10 >= 5 ? 1 : 0);
     }
+    const secondMs = (s1 * 10 + s0) * 1000 + ms;
+    // the minute `yyyy-mm-ddThh:mm`: the one of the previous row (already checked), or read now
     let same = cacheValid && zulu === cachedZulu;
     if (same) {
+      const p = cachedPrefix;
       for (let i = 15; i >= 0; i--) {
-        if (bytes[at + i] !== cachedPrefix[i]) {
+        if (bytes[at + i] !== p[i]) {
           same = false;
           break;
         }
@@ -216,21 +223,28 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
     if (same) {
       minuteUtcMs = cachedMinuteUtcMs;
     } else {
+      const c4 = bytes[at + 4];
+      const c10 = bytes[at + 10];
+      if ((c4 !== 45 && c4 !== 47) || bytes[at + 7] !== c4 || (c10 !== 84 && c10 !== 32) || bytes[at + 13] !== 58) return false;
       const y = digits(bytes, at, 4), mo = digits(bytes, at + 5, 2), d = digits(bytes, at + 8, 2);
       const h = digits(bytes, at + 11, 2), mi = digits(bytes, at + 14, 2);
-      if (y < 0 || mo < 0 || d < 0 || h < 0 || mi < 0) return NaN;
-      if (mo < 1 || mo > 12 || d < 1 || d > daysInMonth(y, mo) || h > 23 || mi > 59) return NaN;
+      if (y < 0 || mo < 0 || d < 0 || h < 0 || mi < 0) return false;
+      if (mo < 1 || mo > 12 || d < 1 || d > daysInMonth(y, mo) || h > 23 || mi > 59) return false;
       const packed = daysFromCivil(y, mo, d) * MS_PER_DAY + (h * 60 + mi) * 60_000;
       minuteUtcMs = zulu ? packed : localToUtc(packed);
       cacheValid = zulu || localToUtc(packed + 59_999) - minuteUtcMs === 59_999;
       for (let i = 0; i < 16; i++) cachedPrefix[i] = bytes[at + i];
       cachedZulu = zulu;
       cachedMinuteUtcMs = minuteUtcMs;
-      if (!cacheValid) return instantOf(y, mo, d, h, mi, s, ms, zulu ? 0 : null);
+      if (!cacheValid) {
+        fixedResult[0] = instantOf(y, mo, d, h, mi, s1 * 10 + s0, ms, zulu ? 0 : null);
+        return true;
+      }
     }
-    let t = minuteUtcMs + s * 1000 + ms + clockOffsetMs;
-    if (timeBasis === "gps") t = gpsToUtcMs(t);
-    return t;
+    let t = minuteUtcMs + secondMs + clockOffsetMs;
+    if (gpsBasis) t = gpsToUtcMs(t);
+    fixedResult[0] = t;
+    return true;
   }
 
   /** A short ASCII string into the scratch bytes; false when it does not fit or is not ASCII. */
@@ -247,14 +261,12 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
 
   /** The timestamp in bytes[at, end) (ASCII/UTF-8 cell of a larger chunk) → UTC ms; throws TimestampError. */
   function parseBytes(bytes: Uint8Array, at: number, end: number): number {
-    const fast = parseFixedLayout(bytes, at, end);
-    return fast === fast ? fast : parse(UTF8.decode(bytes.subarray(at, end)));
+    return readFixedLayout(bytes, at, end) ? fixedResult[0] : parse(UTF8.decode(bytes.subarray(at, end)));
   }
 
   function parse(raw: string): number {
     if (toScratch(raw)) {
-      const fast = parseFixedLayout(scratch, 0, raw.length);
-      if (fast === fast) return fast;
+      if (readFixedLayout(scratch, 0, raw.length)) return fixedResult[0];
     }
     const text = trimmedTimestamp(raw);
     let m = EXTENDED_RE.exec(text);
@@ -306,7 +318,13 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
     throw new TimestampError("unrecognised_format", both, `unreadable date and time "${both}" (expected e.g. 2026-05-04 and 09:15:00)`);
   }
 
-  return { parse, parseBytes, parseDateAndTime };
+  function readFixedBytes(bytes: Uint8Array, at: number, end: number, out: Float64Array, outAt: number): boolean {
+    if (!readFixedLayout(bytes, at, end)) return false;
+    out[outAt] = fixedResult[0];
+    return true;
+  }
+
+  return { parse, parseBytes, readFixedBytes, parseDateAndTime };
 }
 
 /** One-off convenience; build a reader with createTimestampReader for many rows. */
