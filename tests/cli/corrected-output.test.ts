@@ -116,7 +116,7 @@ describe("writeCorrectedOutput", () => {
     const refusing: RowFormatter = { failed: false, format: () => Promise.reject(new Error("no")) };
     expect(await output(refusing)).toBe(expected);
     let jobs = 0;
-    const dying = {
+    const dying: RowFormatter = {
       failed: false,
       format(r: CorrectedCsvRover, start: number, result: CorrectionColumns) {
         jobs++;
