@@ -131,9 +131,6 @@ describe("correct", () => {
     expect(bad.code).toBe(2);
     expect(bad.stderr.trim().split("\n")).toHaveLength(1);
     expect(bad.stderr).toMatch(/--method must be linear, spline or nearest/);
-    const threads = cli(["correct", "--base", base, "--rover", base, "--out", path.join(dir, "x.csv"), "--threads", "3"]);
-    expect(threads.code).toBe(2);
-    expect(threads.stderr).toMatch(/--threads must be 1 or 2/);
     const nofield = write("nofield.csv", "time,lat,lon\n2026-05-04T08:00:00Z,1,2\n");
     const r = cli(["correct", "--base", base, "--rover", nofield, "--out", path.join(dir, "x.csv")]);
     expect(r.code).toBe(2);

@@ -16,14 +16,16 @@
  * and left out of the output; the run succeeds unless no rover reading could be corrected, and then
  * nothing is written. Residuals locate anomalies; they are no clearance certificate for digging.
  */
-import fs from "node:fs";
 import path from "node:path";
 import { z } from "zod";
 import {
+  CorrectedCsvStream,
   createCorrector,
   createReferenceEvaluator,
+  duplicateTimeMarks,
   loopBaseFromStation,
   prepareBaseSeries,
+  sliceRoverReadings,
   type BasePosition,
   type Corrector,
   type DatumChoice,
@@ -35,8 +37,6 @@ import { extent, median } from "../../core/series";
 import { loadReferenceModel, ReferenceModelFileError } from "../../lib/reference-model";
 import { CliError } from "../cli-error";
 import { AtomicFileWriter } from "../atomic-file-writer";
-import { writeCorrectedOutput } from "../corrected-output";
-import { FormatThread } from "../format-thread";
 import { readLogFile, reportLogProblems } from "../log-file";
 import { numberOption, parseStringOptions } from "../option-args";
 
@@ -45,15 +45,11 @@ const USAGE =
   "[--method linear|spline|nearest] [--max-gap-s 120] [--reference igrf|wmm|none] [--timezone Area/City] " +
   "[--base-timezone Area/City] [--rover-timezone Area/City] [--date yyyy-mm-dd (for times of day alone)] [--date-order dmy|mdy] " +
   "[--base-time-basis utc|gps] [--rover-time-basis utc|gps] [--base-clock-offset-s X] [--rover-clock-offset-s X] " +
-  "[--instrument-offset-nt X] [--igrf-file PATH] [--base-lat D --base-lon D --base-height-m M] [--min-field-nt N] [--max-field-nt N] [--threads 1|2]";
+  "[--instrument-offset-nt X] [--igrf-file PATH] [--base-lat D --base-lon D --base-height-m M] [--min-field-nt N] [--max-field-nt N]";
 
 const finite = (flag: string) => numberOption(flag);
-/**
- * Rover logs from this size on have their output formatted on two threads when there are two
- * cores (--threads 1 never, --threads 2 always): ~200 000 readings, where the second thread's
- * start-up (~0.3 s of CPU, spent while the logs are read) is well repaid. Same bytes either way.
- */
-const FORMAT_THREAD_MIN_BYTES = 16 << 20;
+/** Readings corrected and written per batch (a few MB of corrected columns). */
+const BATCH_READINGS = 65_536;
 
 const basis = (flag: string) => z.enum(["utc", "gps"], { error: `${flag} must be utc or gps` }).default("utc");
 
@@ -94,7 +90,6 @@ const OptionsSchema = z
     "base-height-m": finite("--base-height-m"),
     "min-field-nt": finite("--min-field-nt"),
     "max-field-nt": finite("--max-field-nt"),
-    threads: z.enum(["1", "2"], { error: "--threads must be 1 or 2" }).optional(),
   })
   .superRefine((o, ctx) => {
     if (!o.base === !o["loop-station"]) ctx.addIssue({ code: "custom", message: "give exactly one of --base or --loop-station" });
@@ -110,7 +105,7 @@ const STRING_OPTIONS = [
   "base", "loop-station", "rover", "out", "datum", "method", "max-gap-s", "reference", "timezone", "base-timezone",
   "rover-timezone", "date", "date-order", "base-time-basis",
   "rover-time-basis", "base-clock-offset-s", "rover-clock-offset-s", "instrument-offset-nt", "igrf-file", "base-lat",
-  "base-lon", "base-height-m", "min-field-nt", "max-field-nt", "threads",
+  "base-lon", "base-height-m", "min-field-nt", "max-field-nt",
 ] as const;
 
 export function readCorrectOptions(argv: string[]): CorrectOptions {
@@ -154,25 +149,6 @@ function timeSpan(times: ArrayLike<number>): string {
 
 export async function run(argv: string[]): Promise<void> {
   const o = readCorrectOptions(argv);
-  // started before the logs are read, so that its start-up overlaps the reading
-  const twoThreads = o.threads === "2" || (o.threads !== "1" && fileSize(o.rover) >= FORMAT_THREAD_MIN_BYTES);
-  const thread = twoThreads ? FormatThread.start() : null;
-  try {
-    await correct(o, thread);
-  } finally {
-    await thread?.stop();
-  }
-}
-
-function fileSize(file: string): number {
-  try {
-    return fs.statSync(file).size;
-  } catch {
-    return 0; // reported as missing by the read
-  }
-}
-
-async function correct(o: CorrectOptions, thread: FormatThread | null): Promise<void> {
   const range = fieldRange(o);
   const roverLog = await readLogFile(o.rover, {
     timeZone: zoneFor(o["rover-timezone"], o.timezone, o["rover-time-basis"]), timeBasis: o["rover-time-basis"], clockOffsetS: o["rover-clock-offset-s"], fieldRangeNt: range,
@@ -243,10 +219,17 @@ async function correct(o: CorrectOptions, thread: FormatThread | null): Promise<
     throw err;
   }
 
+  // Corrected and written a batch at a time: no corrected columns for the whole log in memory.
   // The file appears at --out only when every row is written and something could be corrected.
   const writer = new AtomicFileWriter(o.out);
   try {
-    await writeCorrectedOutput({ writeBytes: (bytes) => writer.writeBytesAsync(bytes) }, rover, corrector, { formatter: thread });
+    const csv = new CorrectedCsvStream({ writeBytes: (bytes) => writer.writeBytesAsync(bytes) });
+    const marks = duplicateTimeMarks(rover.timeMs, rover.count);
+    for (let start = 0; start < rover.count; start += BATCH_READINGS) {
+      const end = Math.min(rover.count, start + BATCH_READINGS);
+      await csv.write(rover, corrector.correctBatch(sliceRoverReadings(rover, start, end), marks.subarray(start, end)), start);
+    }
+    await csv.finish();
   } catch (err) {
     writer.abort();
     if (err instanceof RangeError) throw new CliError(err.message);

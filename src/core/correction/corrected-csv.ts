@@ -47,18 +47,10 @@ export class CorrectedCsvStream {
   private readonly joinFlags = createFlagJoiner("|");
   private readonly flagBytes = new Map<number, Uint8Array>();
 
-  /** `header: false` for rows that continue a file begun elsewhere. */
-  constructor(sink: ByteSink, options: { header?: boolean } = {}) {
+  constructor(sink: ByteSink) {
     this.w = new CsvByteWriter((bytes) => sink.writeBytes(bytes));
-    if (options.header ?? true) {
-      this.w.text(CORRECTED_CSV_COLUMNS.join(","));
-      this.w.byte(LF);
-    }
-  }
-
-  /** Rows formatted elsewhere (another CorrectedCsvStream without header), after the rows so far. */
-  append(bytes: Uint8Array): Promise<void> {
-    return this.w.append(bytes);
+    this.w.text(CORRECTED_CSV_COLUMNS.join(","));
+    this.w.byte(LF);
   }
 
   /** The rows of `result`; its row i shows rover reading roverOffset + i. */

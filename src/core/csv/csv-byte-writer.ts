@@ -105,16 +105,6 @@ export class CsvByteWriter {
     this.pos = 0;
   }
 
-  /**
-   * Bytes formatted elsewhere (e.g. by another thread), passed to the sink after everything written
-   * so far; the sink may keep them.
-   */
-  async append(bytes: Uint8Array): Promise<void> {
-    await this.handOff();
-    await this.inFlight;
-    this.inFlight = Promise.resolve(this.sink(bytes));
-  }
-
   /** Hand off what is left and wait for every write. */
   async finish(): Promise<void> {
     await this.handOff();
