@@ -23,6 +23,7 @@ import {
   createCorrector,
   createReferenceEvaluator,
   duplicateTimeMarks,
+  emptyColumns,
   loopBaseFromStation,
   prepareBaseSeries,
   sliceRoverReadings,
@@ -225,9 +226,10 @@ export async function run(argv: string[]): Promise<void> {
   try {
     const csv = new CorrectedCsvStream({ writeBytes: (bytes) => writer.writeBytesAsync(bytes) });
     const marks = duplicateTimeMarks(rover.timeMs, rover.count);
+    const columns = emptyColumns(Math.min(BATCH_READINGS, rover.count)); // one set, reused by every batch
     for (let start = 0; start < rover.count; start += BATCH_READINGS) {
       const end = Math.min(rover.count, start + BATCH_READINGS);
-      await csv.write(rover, corrector.correctBatch(sliceRoverReadings(rover, start, end), marks.subarray(start, end)), start);
+      await csv.write(rover, corrector.correctBatch(sliceRoverReadings(rover, start, end), marks.subarray(start, end), columns), start);
     }
     await csv.finish();
   } catch (err) {

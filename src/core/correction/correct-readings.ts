@@ -80,13 +80,41 @@ export interface Corrector {
    * duplicate_time flag in the columns already returned for it. So without marks a batch's flags
    * are final once the next batch has been corrected; a caller that hands each batch on at once
    * passes marks.
+   * `into`: columns to write the batch into (views of their first n values are returned), so a
+   * caller that is done with each batch before the next can reuse one set; every value is written.
+   * Reuse goes with `duplicateMarks` (without them, the previous batch's columns may still change).
    */
-  correctBatch(rover: RoverReadings, duplicateMarks?: Uint8Array): CorrectionColumns;
+  correctBatch(rover: RoverReadings, duplicateMarks?: Uint8Array, into?: CorrectionColumns): CorrectionColumns;
   summary(): CorrectionSummary;
 }
 
 function countOf(rover: RoverReadings): number {
   return rover.count ?? rover.timeMs.length;
+}
+
+/** Correction columns for n readings (zeros until written). */
+export function emptyColumns(n: number): CorrectionColumns {
+  return {
+    count: n,
+    baseNt: new Float64Array(n),
+    diurnalNt: new Float64Array(n),
+    correctedNt: new Float64Array(n),
+    referenceNt: new Float64Array(n),
+    residualNt: new Float64Array(n),
+    flags: new Uint8Array(n),
+  };
+}
+
+function columnViews(c: CorrectionColumns, n: number): CorrectionColumns {
+  return {
+    count: n,
+    baseNt: c.baseNt.subarray(0, n),
+    diurnalNt: c.diurnalNt.subarray(0, n),
+    correctedNt: c.correctedNt.subarray(0, n),
+    referenceNt: c.referenceNt.subarray(0, n),
+    residualNt: c.residualNt.subarray(0, n),
+    flags: c.flags.subarray(0, n),
+  };
 }
 
 /** Build a corrector for a base series; throws RangeError on bad options. */
@@ -120,17 +148,10 @@ export function createCorrector(base: BaseSeries, reference: ReferenceFieldEvalu
   let heightDefaulted = 0;
   const baseHeightM = basePos && Number.isFinite(basePos.heightM) ? basePos.heightM : defaultHeightM;
 
-  function correctBatch(rover: RoverReadings, duplicate?: Uint8Array): CorrectionColumns {
+  function correctBatch(rover: RoverReadings, duplicate?: Uint8Array, into?: CorrectionColumns): CorrectionColumns {
     const n = countOf(rover);
-    const out: CorrectionColumns = {
-      count: n,
-      baseNt: new Float64Array(n),
-      diurnalNt: new Float64Array(n),
-      correctedNt: new Float64Array(n),
-      referenceNt: new Float64Array(n),
-      residualNt: new Float64Array(n),
-      flags: new Uint8Array(n),
-    };
+    if (into && into.count < n) throw new RangeError(`correction columns for ${into.count} readings cannot take a batch of ${n}`);
+    const out = into ? columnViews(into, n) : emptyColumns(n);
     const { timeMs, fieldNt } = rover;
     // columns in locals: the loop below runs per reading
     const { baseNt, diurnalNt, correctedNt, referenceNt, residualNt, flags: flagsOut } = out;

@@ -16,6 +16,7 @@ export {
   createCorrector,
   correctReadings,
   duplicateTimeMarks,
+  emptyColumns,
   sliceRoverReadings,
   type Corrector,
   type CorrectionColumns,
