@@ -2,6 +2,8 @@ import { describe, expect, it } from "vitest";
 import {
   correctReadings,
   createCorrector,
+  duplicateTimeMarks,
+  emptyColumns,
   flagNames,
   loopBaseFromStation,
   prepareBaseSeries,
@@ -118,6 +120,28 @@ describe("continuous base", () => {
     expect([...a.correctedNt, ...b.correctedNt]).toEqual(Array.from(whole.correctedNt));
     expect(c.summary().count).toBe(4);
     expect(flagNames(b.flags[0])).toContain("duplicate_time");
+  });
+
+  it("batches written into one reused set of columns give the whole-log values, batch by batch", () => {
+    const whole = correctReadings(rover, base, planar, { datum: "median" });
+    const c = createCorrector(base, planar, { datum: "median" });
+    const marks = duplicateTimeMarks(rover.timeMs);
+    const into = emptyColumns(3);
+    const seen: number[][] = [];
+    for (let start = 0; start < rover.timeMs.length; start += 3) {
+      const end = Math.min(rover.timeMs.length, start + 3);
+      const part = (a: number[]) => a.slice(start, end);
+      const batch = c.correctBatch(
+        { timeMs: part(rover.timeMs), fieldNt: part(rover.fieldNt), latDeg: part(rover.latDeg), lonDeg: part(rover.lonDeg), heightM: part(rover.heightM) },
+        marks.subarray(start, end),
+        into,
+      );
+      expect(batch.count).toBe(end - start);
+      expect(batch.baseNt.buffer).toBe(into.baseNt.buffer); // written in place
+      for (let i = 0; i < batch.count; i++) seen.push([batch.baseNt[i], batch.correctedNt[i], batch.residualNt[i], batch.flags[i]]);
+    }
+    expect(seen).toEqual(Array.from(whole.baseNt, (b, i) => [b, whole.correctedNt[i], whole.residualNt[i], whole.flags[i]]));
+    expect(() => createCorrector(base, null, { datum: 48300 }).correctBatch(rover, undefined, emptyColumns(2))).toThrow(RangeError);
   });
 
   // Regression: a duplicate-time pair split across two batches flagged only its second member.
