@@ -12,7 +12,7 @@ import os from "node:os";
 import path from "node:path";
 import { generateBenchData } from "./generate";
 
-const REPEATS = Math.max(3, Number(process.env.BENCH_REPEATS ?? 3) || 3);
+const REPEATS = Math.max(3, Number(process.env.BENCH_REPEATS ?? 5) || 5);
 const BENCH_DIR = import.meta.dirname;
 const OUT_DIR = path.join(BENCH_DIR, "out");
 /** Case modules, run in this order; the first is the baseline the others are compared with. */
