@@ -8,6 +8,8 @@ import fs from "node:fs";
 export class AtomicFileWriter {
   private readonly temporary: string;
   private fd: number | null;
+  /** Bytes written or under way: each write has its own offset, so several may be in flight. */
+  private position = 0;
   private pending: string[] = [];
   private pendingChars = 0;
 
@@ -19,17 +21,24 @@ export class AtomicFileWriter {
   /** Raw bytes, written in order after any pending text. */
   writeBytes(bytes: Uint8Array): void {
     this.flush();
-    if (this.fd !== null) fs.writeSync(this.fd, bytes);
+    if (this.fd === null) return;
+    for (let offset = 0; offset < bytes.length; ) offset += fs.writeSync(this.fd, bytes, offset, bytes.length - offset, this.position + offset);
+    this.position += bytes.length;
   }
 
-  /** Raw bytes written by the thread pool; the caller keeps `bytes` untouched until it settles. */
+  /**
+   * Raw bytes written by the thread pool at the next offset; the caller keeps `bytes` untouched
+   * until it settles. Several may be in flight at once: each has its own place in the file.
+   */
   writeBytesAsync(bytes: Uint8Array): Promise<void> {
     this.flush();
     const fd = this.fd;
     if (fd === null) return Promise.reject(new Error("writer already closed"));
+    const at = this.position;
+    this.position += bytes.length;
     return new Promise((resolve, reject) => {
       const step = (offset: number) =>
-        fs.write(fd, bytes, offset, bytes.length - offset, null, (err, written) => {
+        fs.write(fd, bytes, offset, bytes.length - offset, at + offset, (err, written) => {
           if (err) reject(err);
           else if (offset + written < bytes.length) step(offset + written);
           else resolve();
@@ -46,9 +55,10 @@ export class AtomicFileWriter {
 
   private flush(): void {
     if (this.fd === null || this.pending.length === 0) return;
-    fs.writeSync(this.fd, this.pending.join(""));
+    const text = this.pending.join("");
     this.pending = [];
     this.pendingChars = 0;
+    this.writeBytes(Buffer.from(text, "utf8"));
   }
 
   commit(): void {

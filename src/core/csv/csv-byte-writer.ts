@@ -14,10 +14,13 @@ const INT32_LIMIT = 2_147_483_647;
 export const MAX_FIXED_BYTES = 35;
 /** Bytes of `yyyy-mm-ddThh:mm:ss.sssZ`. */
 export const ISO_TIME_BYTES = 24;
+/** Full buffers out with the sink at most (4 MiB each by default). */
+const MAX_BUFFERS_IN_FLIGHT = 4;
 
 /**
  * Where finished bytes go (a file, memory, a response). A sink that returns a promise may keep the
- * bytes until it settles; one that returns nothing must have consumed or copied them.
+ * bytes until it settles, and may be handed further buffers before it does: it must put them out
+ * in the order given. One that returns nothing must have consumed or copied them.
  */
 export interface ByteSink {
   writeBytes(bytes: Uint8Array): void | Promise<void>;
@@ -33,10 +36,12 @@ export class CsvByteWriter {
   private buf: Uint8Array;
   /** The same bytes as `buf`, for the 32-bit stores of putFixed and IsoTimeBytes. */
   private bufView: DataView;
-  private spare: Uint8Array;
+  /** Buffers free for reuse (their writes settled). */
+  private readonly spare: Uint8Array[] = [];
   /** End of the bytes written so far in the current buffer (see `reserve`). */
   pos = 0;
-  private inFlight: Promise<void> = Promise.resolve();
+  /** Buffers handed to the sink whose promise has not been awaited yet, oldest first. */
+  private readonly inFlight: { buf: Uint8Array; done: Promise<void> }[] = [];
   private readonly times = new IsoTimeBytes();
   private readonly textCache = new Map<string, Uint8Array>();
   private lastText = "";
@@ -50,7 +55,6 @@ export class CsvByteWriter {
   constructor(private readonly sink: (bytes: Uint8Array) => void | Promise<void>, private readonly capacity = 1 << 22) {
     this.buf = new Uint8Array(capacity);
     this.bufView = new DataView(this.buf.buffer);
-    this.spare = new Uint8Array(capacity);
   }
 
   /** Make room for n more bytes by growing the buffer (never writes, so order stays with handOff). */
@@ -91,24 +95,39 @@ export class CsvByteWriter {
     return this.pos > this.capacity - 65_536;
   }
 
-  /** Pass the filled part to the sink and continue in the other buffer once its previous write is done. */
+  /**
+   * Pass the filled part to the sink and continue in a free buffer. Up to MAX_BUFFERS_IN_FLIGHT
+   * buffers may be out at once (so a slow write does not hold up formatting); beyond that, the
+   * oldest is waited for first. A buffer is reused only after its write settled.
+   */
   async handOff(): Promise<void> {
     if (this.pos === 0) return;
-    const full = this.buf.subarray(0, this.pos);
-    const previous = this.inFlight;
-    await previous;
-    this.inFlight = Promise.resolve(this.sink(full));
-    const next = this.spare;
-    this.spare = this.buf.length === this.capacity ? this.buf : new Uint8Array(this.capacity);
-    // the buffer just handed off is reused only after its write settles (awaited at the next handOff)
-    this.useBuffer(next);
+    const full = this.buf;
+    const done = Promise.resolve(this.sink(full.subarray(0, this.pos)));
+    done.catch(() => undefined); // awaited below or in finish(), where a failure is thrown
+    this.inFlight.push({ buf: full, done });
     this.pos = 0;
+    while (this.inFlight.length >= MAX_BUFFERS_IN_FLIGHT) await this.settleOldest();
+    this.useBuffer(this.spare.pop() ?? new Uint8Array(this.capacity));
+  }
+
+  private async settleOldest(): Promise<void> {
+    const oldest = this.inFlight.shift()!;
+    try {
+      await oldest.done;
+    } catch (err) {
+      // every other write ends before the failure is passed on, so none is still running when the
+      // caller closes or removes what the sink writes to
+      await Promise.allSettled(this.inFlight.splice(0).map((w) => w.done));
+      throw err;
+    }
+    if (oldest.buf.length === this.capacity) this.spare.push(oldest.buf); // a grown buffer is dropped
   }
 
   /** Hand off what is left and wait for every write. */
   async finish(): Promise<void> {
     await this.handOff();
-    await this.inFlight;
+    while (this.inFlight.length > 0) await this.settleOldest();
   }
 
   byte(c: number): void {

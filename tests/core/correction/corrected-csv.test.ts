@@ -93,4 +93,57 @@ describe("writeCorrectedCsv", () => {
     expect(new TextDecoder().decode(Buffer.concat(pieces))).toBe(once);
     await expect(new CorrectedCsvStream({ writeBytes: () => {} }).write(rover, columns(2, () => [1, 1, 1, 1, 1, 0]), n - 1)).rejects.toThrow(RangeError);
   });
+  it("with several buffers out at once, a sink that reads each buffer only when its write settles, out of order, gets the same bytes", async () => {
+    const n = 200_000; // ~6 buffers of 4 MiB: several in flight
+    const t0 = Date.UTC(2026, 4, 4, 5);
+    const rover: CorrectedCsvRover = {
+      count: n,
+      timeMs: Float64Array.from({ length: n }, (_, i) => t0 + i * 50),
+      fieldNt: Float64Array.from({ length: n }, (_, i) => 48_900 + Math.sin(i / 900) * 30),
+      latDeg: Float64Array.from({ length: n }, (_, i) => 52 + i * 1e-7),
+      lonDeg: Float64Array.from({ length: n }, () => -3.5),
+      heightM: Float64Array.from({ length: n }, (_, i) => 200 + (i % 100) * 0.01),
+      line: Array.from({ length: n }, (_, i) => `L${Math.floor(i / 5000)}`),
+    };
+    const result = columns(n, (i) => [48_890 + i * 1e-4, i * 1e-4, 48_901, 49_100, -199, 0]);
+    const expected = await text(rover, result, "sync");
+    const pieces: Uint8Array[] = [];
+    let seq = 0;
+    let active = 0;
+    let most = 0;
+    const slow = (b: Uint8Array) => {
+      const k = seq++;
+      active++;
+      most = Math.max(most, active);
+      // settles later for even buffers than for odd ones, and copies the bytes only then
+      return new Promise<void>((resolve) => setTimeout(() => {
+        pieces[k] = b.slice();
+        active--;
+        resolve();
+      }, k % 2 === 0 ? 15 : 1));
+    };
+    await writeCorrectedCsv({ writeBytes: slow }, rover, result);
+    expect(active).toBe(0);
+    expect(most).toBeGreaterThan(1); // buffers really were out together
+    expect(new TextDecoder().decode(Buffer.concat(pieces))).toBe(expected);
+  });
+
+  it("a failed write is thrown once every other write has ended", async () => {
+    const n = 150_000;
+    const rover: CorrectedCsvRover = { count: n, timeMs: new Float64Array(n).fill(Date.UTC(2026, 4, 4)), fieldNt: new Float64Array(n).fill(48_900), latDeg: null, lonDeg: null, heightM: null, line: null };
+    let seq = 0;
+    let active = 0;
+    const failing = () => {
+      const k = seq++;
+      active++;
+      return new Promise<void>((resolve, reject) => setTimeout(() => {
+        active--;
+        if (k === 1) reject(new Error("disk full"));
+        else resolve();
+      }, k === 1 ? 1 : 20));
+    };
+    await expect(writeCorrectedCsv({ writeBytes: failing }, rover, columns(n, () => [1, 1, 1, 1, 1, 0]))).rejects.toThrow("disk full");
+    expect(seq).toBeGreaterThan(2);
+    expect(active).toBe(0);
+  });
 });
