@@ -4,7 +4,7 @@
  * time ISO 8601 UTC with ms; nT to 0.001, degrees to 0.0000001 (~1 cm), height to 0.001 m; empty
  * cell = no value; flags joined with `|`. Pure: the bytes go to a caller's sink.
  */
-import { CsvByteWriter, IsoTimeBytes, ISO_TIME_BYTES, MAX_FIXED_BYTES, putBytes, putFixed, type ByteSink } from "../csv";
+import { CsvByteWriter, IsoTimeBytes, ISO_TIME_BYTES, MAX_FIXED_BYTES, putBytes, putFixedAt, type ByteSink } from "../csv";
 import type { LogReadings } from "../logs";
 import type { CorrectionColumns } from "./correct-readings";
 import { createFlagJoiner } from "./flags";
@@ -95,25 +95,25 @@ export class CorrectedCsvStream {
       const v = w.view;
       let p = times.put(v, w.pos, timeMs[r]);
       b[p++] = COMMA;
-      if (latDeg) p = putFixed(v, p, latDeg[r], DEG_DECIMALS);
+      if (latDeg) p = putFixedAt(v, p, latDeg, r, DEG_DECIMALS);
       b[p++] = COMMA;
-      if (lonDeg) p = putFixed(v, p, lonDeg[r], DEG_DECIMALS);
+      if (lonDeg) p = putFixedAt(v, p, lonDeg, r, DEG_DECIMALS);
       b[p++] = COMMA;
-      if (heightM) p = putFixed(v, p, heightM[r], HEIGHT_DECIMALS);
+      if (heightM) p = putFixedAt(v, p, heightM, r, HEIGHT_DECIMALS);
       b[p++] = COMMA;
       p = putBytes(b, p, lineCell);
       b[p++] = COMMA;
-      p = putFixed(v, p, fieldNt[r], NT_DECIMALS);
+      p = putFixedAt(v, p, fieldNt, r, NT_DECIMALS);
       b[p++] = COMMA;
-      p = putFixed(v, p, baseNt[i], NT_DECIMALS);
+      p = putFixedAt(v, p, baseNt, i, NT_DECIMALS);
       b[p++] = COMMA;
-      p = putFixed(v, p, diurnalNt[i], NT_DECIMALS);
+      p = putFixedAt(v, p, diurnalNt, i, NT_DECIMALS);
       b[p++] = COMMA;
-      p = putFixed(v, p, correctedNt[i], NT_DECIMALS);
+      p = putFixedAt(v, p, correctedNt, i, NT_DECIMALS);
       b[p++] = COMMA;
-      p = putFixed(v, p, referenceNt[i], NT_DECIMALS);
+      p = putFixedAt(v, p, referenceNt, i, NT_DECIMALS);
       b[p++] = COMMA;
-      p = putFixed(v, p, residualNt[i], NT_DECIMALS);
+      p = putFixedAt(v, p, residualNt, i, NT_DECIMALS);
       b[p++] = COMMA;
       p = putBytes(b, p, flagCell);
       b[p++] = LF;
