@@ -164,6 +164,9 @@ export function createCorrector(base: BaseSeries, reference: ReferenceFieldEvalu
     let correctedSoFar = correctedCount;
     let residuals = residualCount;
     let defaulted = heightDefaulted;
+    // the reference field of the whole batch in one call where the evaluator offers it (same values)
+    const batchReference = reference !== null && reference.totalNtInto !== undefined && lat !== null && lon !== null;
+    if (batchReference) reference.totalNtInto!(referenceNt, lat, lon, hgt, timeMs, n, defaultHeightM);
     for (let i = 0; i < n; i++) {
       const t = timeMs[i];
       let flags = 0;
@@ -194,7 +197,7 @@ export function createCorrector(base: BaseSeries, reference: ReferenceFieldEvalu
             h = defaultHeightM;
             defaulted++;
           }
-          refNt = reference.totalNt(la, lo, h, t);
+          refNt = batchReference ? referenceNt[i] : reference.totalNt(la, lo, h, t);
         }
       }
 

@@ -3,7 +3,7 @@
  * validity bounds computed once, and the fast gridded total-field evaluator over the box and time
  * span of the survey (the readings plus the base position and base record).
  */
-import { createTotalFieldEvaluator, timeMsFromDecimalYear, type FieldModel } from "../reference-field";
+import { createTotalFieldGrid, timeMsFromDecimalYear, type FieldModel } from "../reference-field";
 import type { RoverReadings } from "./correct-readings";
 import type { BasePosition, ReferenceFieldEvaluator } from "./reference-evaluator";
 
@@ -41,10 +41,11 @@ export function createReferenceEvaluator(model: FieldModel, rover: RoverReadings
   const height = finiteExtent(rover.heightM, [context.defaultHeightM ?? 0, ...(pos ? [pos.heightM] : [])]);
   const time = finiteExtent(rover.timeMs, baseTimes && baseTimes.length > 0 ? [baseTimes[0], baseTimes[baseTimes.length - 1]] : []);
   let totalNt: ReferenceFieldEvaluator["totalNt"] = () => NaN;
+  let totalNtInto: ReferenceFieldEvaluator["totalNtInto"] = (out, _lat, _lon, _height, _time, count) => void out.fill(NaN, 0, count);
   if (lat && lon && height && time) {
     const fromMs = Math.max(time[0], validFromMs);
     const toMs = Math.max(Math.min(time[1], validToMs), fromMs);
-    totalNt = createTotalFieldEvaluator(model, {
+    const grid = createTotalFieldGrid(model, {
       minTimeMs: fromMs,
       maxTimeMs: toMs,
       minLatDeg: lat[0],
@@ -54,10 +55,13 @@ export function createReferenceEvaluator(model: FieldModel, rover: RoverReadings
       minHeightM: height[0],
       maxHeightM: height[1],
     });
+    totalNt = grid.evaluate;
+    totalNtInto = grid.evaluateInto;
   }
   return {
     label: model.name,
     covers: (t) => t >= validFromMs && t <= validToMs,
     totalNt,
+    totalNtInto,
   };
 }

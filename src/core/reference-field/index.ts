@@ -8,7 +8,7 @@ export type { GeodeticPoint, FieldVector } from "./synthesis";
 export { synthesizeField, synthesizeFieldAtYear, isWithinValidity } from "./synthesis";
 export { parseIagaCoefficients } from "./iaga-parser";
 export { modelFromWmmJson } from "./wmm-json";
-export { createTotalFieldEvaluator } from "./total-field-evaluator";
+export { createTotalFieldEvaluator, createTotalFieldGrid, type TotalFieldBatchEvaluator, type TotalFieldGrid } from "./total-field-evaluator";
 export type { TotalFieldEvaluator, TotalFieldEvaluatorOptions } from "./total-field-evaluator";
 export { decimalYear, timeMsFromDecimalYear } from "./decimal-year";
 export { CoefficientTableError, OutsideModelValidityError, ModelFormatError } from "./errors";

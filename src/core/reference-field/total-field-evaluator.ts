@@ -40,8 +40,25 @@ export interface TotalFieldEvaluatorOptions {
 /** Total field (nT) of the reference model at a geodetic position and UTC instant. */
 export type TotalFieldEvaluator = (latDeg: number, lonDeg: number, heightM: number, timeMs: number) => number;
 
+/**
+ * The total field of readings 0…count−1 into out[0…count−1]: NaN where latitude or longitude is
+ * NaN or the time is outside the model's validity; a NaN height counts as `defaultHeightM`. The
+ * evaluator's values, in one call per batch (a double passed to a call that is not inlined is
+ * boxed, an allocation per reading).
+ */
+export type TotalFieldBatchEvaluator = (
+  out: Float64Array,
+  latDeg: ArrayLike<number>,
+  lonDeg: ArrayLike<number>,
+  heightM: ArrayLike<number> | null,
+  timeMs: ArrayLike<number>,
+  count: number,
+  defaultHeightM: number,
+) => void;
+
 export interface TotalFieldGrid {
   evaluate: TotalFieldEvaluator;
+  evaluateInto: TotalFieldBatchEvaluator;
   /** Nodes per axis; all zero when the box was too large and every reading uses direct synthesis. */
   latNodeCount: number;
   lonNodeCount: number;
@@ -236,8 +253,19 @@ export function createTotalFieldGrid(model: FieldModel, opts: TotalFieldEvaluato
   assertOptions(opts);
   const direct: TotalFieldEvaluator = (latitudeDeg, longitudeDeg, heightM, timeMs) =>
     synthesizeField(model, { latitudeDeg, longitudeDeg, heightM, timeMs }).totalNt;
+  const coversFromMs = timeMsFromDecimalYear(model.validFromYear);
+  const coversToMs = timeMsFromDecimalYear(model.validToYear);
+  const directInto: TotalFieldBatchEvaluator = (out, latDeg, lonDeg, heightM, timeMs, count, defaultHeightM) => {
+    for (let i = 0; i < count; i++) {
+      const t = timeMs[i];
+      const h = heightM ? heightM[i] : NaN;
+      const outside = latDeg[i] !== latDeg[i] || lonDeg[i] !== lonDeg[i] || !(t >= coversFromMs && t <= coversToMs);
+      out[i] = outside ? NaN : direct(latDeg[i], lonDeg[i], h === h ? h : defaultHeightM, t);
+    }
+  };
   const noGrid = (timeNodesMs: number[] = []): TotalFieldGrid => ({
     evaluate: direct,
+    evaluateInto: directInto,
     latNodeCount: 0,
     lonNodeCount: 0,
     heightNodeCount: 0,
@@ -247,8 +275,8 @@ export function createTotalFieldGrid(model: FieldModel, opts: TotalFieldEvaluato
   });
 
   // Clip the time range to validity; readings outside it go to direct synthesis, which throws.
-  const validFromMs = Math.ceil(timeMsFromDecimalYear(model.validFromYear));
-  const validToMs = Math.floor(timeMsFromDecimalYear(model.validToYear));
+  const validFromMs = Math.ceil(coversFromMs);
+  const validToMs = Math.floor(coversToMs);
   const fromMs = Math.max(opts.minTimeMs, validFromMs);
   const toMs = Math.min(opts.maxTimeMs, validToMs);
   if (fromMs > toMs) return noGrid();
@@ -285,41 +313,71 @@ export function createTotalFieldGrid(model: FieldModel, opts: TotalFieldEvaluato
   const lastMs = nodesMs[nodesMs.length - 1];
   let segment = 0;
 
-  const evaluate: TotalFieldEvaluator = (latDeg, lonGivenDeg, heightM, timeMs) => {
-    let lonDeg = lonGivenDeg;
-    if (!(lonDeg >= lon.start && lonDeg <= lonMax)) {
-      lonDeg = lon.start + ((((lonGivenDeg - lon.start) % 360) + 360) % 360); // same meridian, inside the window if it can be
+  // The per-reading arithmetic is written once, in the batch loop; the one-reading form goes through it.
+  const evaluateInto: TotalFieldBatchEvaluator = (out, latIn, lonIn, heightIn, timeIn, count, defaultHeightM) => {
+    for (let i = 0; i < count; i++) {
+      const latDeg = latIn[i];
+      const lonGivenDeg = lonIn[i];
+      const timeMs = timeIn[i];
+      let heightM = heightIn ? heightIn[i] : NaN;
+      if (heightM !== heightM) heightM = defaultHeightM;
+      if (latDeg !== latDeg || lonGivenDeg !== lonGivenDeg || !(timeMs >= coversFromMs && timeMs <= coversToMs)) {
+        out[i] = NaN;
+        continue;
+      }
+      let lonDeg = lonGivenDeg;
+      if (!(lonDeg >= lon.start && lonDeg <= lonMax)) {
+        lonDeg = lon.start + ((((lonGivenDeg - lon.start) % 360) + 360) % 360); // same meridian, inside the window if it can be
+      }
+      if (
+        !(latDeg >= lat.start && latDeg <= latMax) ||
+        !(lonDeg >= lon.start && lonDeg <= lonMax) ||
+        !(heightM >= height.start && heightM <= heightMax) ||
+        !(timeMs >= firstMs && timeMs <= lastMs)
+      ) {
+        out[i] = direct(latDeg, lonGivenDeg, heightM, timeMs);
+        continue;
+      }
+      while (segment > 0 && timeMs < nodesMs[segment]) segment--;
+      while (segment < nodesMs.length - 2 && timeMs > nodesMs[segment + 1]) segment++;
+      const uLat = (latDeg - lat.start) / lat.step;
+      const uLon = (lonDeg - lon.start) / lon.step;
+      const uHeight = (heightM - height.start) / height.step;
+      const iLat = Math.min(Math.floor(uLat), lat.count - 2);
+      const iLon = Math.min(Math.floor(uLon), lon.count - 2);
+      const iHeight = Math.min(Math.floor(uHeight), height.count - 2);
+      const fLat = uLat - iLat;
+      const fLon = uLon - iLon;
+      const fHeight = uHeight - iHeight;
+      const base = iHeight * heightStride + iLat * latStride + iLon;
+      const before = trilinear(grids[segment], base, 1, latStride, heightStride, fLat, fLon, fHeight);
+      const t0 = nodesMs[segment];
+      const t1 = nodesMs[segment + 1];
+      if (t1 === t0) {
+        out[i] = before;
+        continue;
+      }
+      const after = trilinear(grids[segment + 1], base, 1, latStride, heightStride, fLat, fLon, fHeight);
+      out[i] = before + ((timeMs - t0) / (t1 - t0)) * (after - before);
     }
-    if (
-      !(latDeg >= lat.start && latDeg <= latMax) ||
-      !(lonDeg >= lon.start && lonDeg <= lonMax) ||
-      !(heightM >= height.start && heightM <= heightMax) ||
-      !(timeMs >= firstMs && timeMs <= lastMs)
-    ) {
-      return direct(latDeg, lonGivenDeg, heightM, timeMs);
+  };
+  const one = { lat: new Float64Array(1), lon: new Float64Array(1), height: new Float64Array(1), time: new Float64Array(1), out: new Float64Array(1) };
+  const evaluate: TotalFieldEvaluator = (latDeg, lonDeg, heightM, timeMs) => {
+    // outside validity direct synthesis throws, as documented; a NaN input goes there as before
+    if (!(timeMs >= coversFromMs && timeMs <= coversToMs) || latDeg !== latDeg || lonDeg !== lonDeg || heightM !== heightM) {
+      return direct(latDeg, lonDeg, heightM, timeMs);
     }
-    while (segment > 0 && timeMs < nodesMs[segment]) segment--;
-    while (segment < nodesMs.length - 2 && timeMs > nodesMs[segment + 1]) segment++;
-    const uLat = (latDeg - lat.start) / lat.step;
-    const uLon = (lonDeg - lon.start) / lon.step;
-    const uHeight = (heightM - height.start) / height.step;
-    const iLat = Math.min(Math.floor(uLat), lat.count - 2);
-    const iLon = Math.min(Math.floor(uLon), lon.count - 2);
-    const iHeight = Math.min(Math.floor(uHeight), height.count - 2);
-    const fLat = uLat - iLat;
-    const fLon = uLon - iLon;
-    const fHeight = uHeight - iHeight;
-    const base = iHeight * heightStride + iLat * latStride + iLon;
-    const before = trilinear(grids[segment], base, 1, latStride, heightStride, fLat, fLon, fHeight);
-    const t0 = nodesMs[segment];
-    const t1 = nodesMs[segment + 1];
-    if (t1 === t0) return before;
-    const after = trilinear(grids[segment + 1], base, 1, latStride, heightStride, fLat, fLon, fHeight);
-    return before + ((timeMs - t0) / (t1 - t0)) * (after - before);
+    one.lat[0] = latDeg;
+    one.lon[0] = lonDeg;
+    one.height[0] = heightM;
+    one.time[0] = timeMs;
+    evaluateInto(one.out, one.lat, one.lon, one.height, one.time, 1, 0);
+    return one.out[0];
   };
 
   return {
     evaluate,
+    evaluateInto,
     latNodeCount: lat.count,
     lonNodeCount: lon.count,
     heightNodeCount: height.count,

@@ -2,6 +2,7 @@ import { describe, expect, it } from "vitest";
 import {
   correctReadings,
   createCorrector,
+  createReferenceEvaluator,
   duplicateTimeMarks,
   emptyColumns,
   flagNames,
@@ -10,6 +11,7 @@ import {
   type ReferenceFieldEvaluator,
 } from "@/src/core/correction";
 import { parseLogText } from "@/src/core/logs";
+import { loadReferenceModel } from "@/src/lib/reference-model";
 
 const T0 = Date.UTC(2026, 4, 4, 8, 0, 0);
 const s = (seconds: number) => T0 + seconds * 1000;
@@ -142,6 +144,23 @@ describe("continuous base", () => {
     }
     expect(seen).toEqual(Array.from(whole.baseNt, (b, i) => [b, whole.correctedNt[i], whole.residualNt[i], whole.flags[i]]));
     expect(() => createCorrector(base, null, { datum: 48300 }).correctBatch(rover, undefined, emptyColumns(2))).toThrow(RangeError);
+  });
+
+  it("the evaluator's batch form and its one-reading form give the same columns (WMM2025, geomagnetism package)", () => {
+    const model = loadReferenceModel("wmm");
+    const t = Date.UTC(2026, 4, 4, 8);
+    const positioned = { ...rover, timeMs: rover.timeMs.map((ms) => ms - T0 + t) };
+    const base2 = prepareBaseSeries(base.timeMs.map((ms) => ms - T0 + t), base.fieldNt);
+    const withBatch = createReferenceEvaluator(model, positioned, { baseTimeMs: base2.timeMs });
+    expect(withBatch.totalNtInto).toBeTypeOf("function");
+    const { totalNtInto: _dropped, ...oneByOne } = withBatch;
+    const a = correctReadings(positioned, base2, withBatch, { datum: "median" });
+    const b = correctReadings(positioned, base2, oneByOne, { datum: "median" });
+    expect(Array.from(a.referenceNt)).toEqual(Array.from(b.referenceNt));
+    expect(Array.from(a.residualNt)).toEqual(Array.from(b.residualNt));
+    expect(Array.from(a.flags)).toEqual(Array.from(b.flags));
+    expect(a.summary).toEqual(b.summary);
+    expect(a.referenceNt.filter((v) => v === v).length).toBeGreaterThan(4);
   });
 
   // Regression: a duplicate-time pair split across two batches flagged only its second member.

@@ -144,3 +144,44 @@ describe("total-field evaluator against direct synthesis", () => {
     expect(() => createTotalFieldEvaluator(igrf, opts)).toThrow(RangeError);
   });
 });
+
+describe("batch form of the total-field evaluator", () => {
+  it("gives the one-reading evaluator's values bit for bit, NaN where a reading has no position or lies outside validity, the default height where it has none", () => {
+    // WMM2025 (geomagnetism package) is valid 2025.0–2030.0; the box is one day in 2026
+    const model = wmmModel();
+    const opts = box(52.1, -3.45, 5, Date.UTC(2026, 4, 4));
+    const grid = createTotalFieldGrid(model, opts);
+    expect(grid.usesGrid).toBe(true);
+    const random = sequence(7);
+    const n = 5_000;
+    const lat = new Float64Array(n), lon = new Float64Array(n), height = new Float64Array(n), time = new Float64Array(n);
+    for (let i = 0; i < n; i++) {
+      // mostly inside the box, some outside it (direct synthesis), a few without position or height
+      const outside = i % 50 === 7;
+      lat[i] = i % 97 === 3 ? NaN : opts.minLatDeg + (outside ? 0.5 : random()) * (opts.maxLatDeg - opts.minLatDeg) * (outside ? 3 : 1);
+      lon[i] = opts.minLonDeg + random() * (opts.maxLonDeg - opts.minLonDeg) + (i % 61 === 0 ? 360 : 0);
+      height[i] = i % 89 === 5 ? NaN : opts.minHeightM + random() * (opts.maxHeightM - opts.minHeightM);
+      time[i] = i % 71 === 9 ? Date.UTC(2031, 0, 1) : Math.round(opts.minTimeMs + random() * (opts.maxTimeMs - opts.minTimeMs) + (i % 43 === 2 ? 3 * DAY_MS : 0));
+    }
+    const out = new Float64Array(n);
+    grid.evaluateInto(out, lat, lon, height, time, n, 123);
+    let checked = 0;
+    for (let i = 0; i < n; i++) {
+      if (lat[i] !== lat[i] || time[i] > Date.UTC(2030, 0, 1)) {
+        expect(out[i]).toBeNaN();
+        continue;
+      }
+      const h = height[i] === height[i] ? height[i] : 123;
+      expect(out[i]).toBe(grid.evaluate(lat[i], lon[i], h, time[i]));
+      if (i % 50 === 7) {
+        // outside the box: direct synthesis, exactly
+        expect(out[i]).toBe(synthesizeField(model, { latitudeDeg: lat[i], longitudeDeg: lon[i], heightM: h, timeMs: time[i] }).totalNt);
+      } else {
+        expect(Math.abs(out[i] - synthesizeField(model, { latitudeDeg: lat[i], longitudeDeg: lon[i], heightM: h, timeMs: time[i] }).totalNt)).toBeLessThan(TOLERANCE_NT);
+      }
+      checked++;
+    }
+    expect(checked).toBeGreaterThan(4_700);
+    expect(() => grid.evaluate(52.1, -3.45, 0, Date.UTC(2031, 0, 1))).toThrow(OutsideModelValidityError);
+  });
+});
