@@ -19,6 +19,11 @@ export interface BaseInterpolator {
   at(timeMs: number): number;
   /** Status of the last `at` call. */
   status: CoverStatus;
+  /**
+   * `at` for times 0…count−1 at once: field into out[i], CoverStatus into status[i] (one call per
+   * batch: a double returned from a call that is not inlined is boxed, an allocation per reading).
+   */
+  fill(out: Float64Array, status: Uint8Array, timeMs: ArrayLike<number>, count: number): void;
 }
 
 export interface BaseInterpolationOptions {
@@ -56,12 +61,13 @@ export function createBaseInterpolator(base: BaseSeries, options: BaseInterpolat
   }
 
   let hint = 0;
-  const self: BaseInterpolator = {
-    status: CoverStatus.Ok,
-    at(timeMs: number): number {
+  const fill: BaseInterpolator["fill"] = (out, status, times, count) => {
+    for (let k = 0; k < count; k++) {
+      const timeMs = times[k];
       if (n === 0 || timeMs < t[0] || timeMs > t[n - 1] || timeMs !== timeMs) {
-        self.status = CoverStatus.NoBaseCover;
-        return NaN;
+        status[k] = CoverStatus.NoBaseCover;
+        out[k] = NaN;
+        continue;
       }
       let i = hint;
       if (!(i < n - 1 && t[i] <= timeMs && timeMs < t[i + 1])) {
@@ -69,21 +75,34 @@ export function createBaseInterpolator(base: BaseSeries, options: BaseInterpolat
         hint = i;
       }
       if (t[i] === timeMs) {
-        self.status = CoverStatus.Ok;
-        return f[i];
+        status[k] = CoverStatus.Ok;
+        out[k] = f[i];
+        continue;
       }
       const t0 = t[i];
       const t1 = t[i + 1];
       if (t1 - t0 > maxGapMs) {
-        self.status = CoverStatus.BaseGap;
-        return NaN;
+        status[k] = CoverStatus.BaseGap;
+        out[k] = NaN;
+        continue;
       }
-      self.status = CoverStatus.Ok;
-      if (method === "linear") return f[i] + ((f[i + 1] - f[i]) * (timeMs - t0)) / (t1 - t0);
-      if (method === "nearest") return timeMs - t0 <= t1 - timeMs ? f[i] : f[i + 1];
+      status[k] = CoverStatus.Ok;
+      if (method === "linear") out[k] = f[i] + ((f[i + 1] - f[i]) * (timeMs - t0)) / (t1 - t0);
+      else if (method === "nearest") out[k] = timeMs - t0 <= t1 - timeMs ? f[i] : f[i + 1];
       // spline: x relative to the stretch start is xs[i] + (timeMs − t0)/1000
-      return evaluateSplineInterval(xs!, f, ms!, i, xs![i] + (timeMs - t0) / 1000);
+      else out[k] = evaluateSplineInterval(xs!, f, ms!, i, xs![i] + (timeMs - t0) / 1000);
+    }
+  };
+  const one = { out: new Float64Array(1), status: new Uint8Array(1), time: new Float64Array(1) };
+  const self: BaseInterpolator = {
+    status: CoverStatus.Ok,
+    at(timeMs: number): number {
+      one.time[0] = timeMs;
+      fill(one.out, one.status, one.time, 1);
+      self.status = one.status[0] as CoverStatus;
+      return one.out[0];
     },
+    fill,
   };
   return self;
 }

@@ -134,6 +134,7 @@ export function createCorrector(base: BaseSeries, reference: ReferenceFieldEvalu
     }
   }
   const interp = createBaseInterpolator(base, { method, maxGapS });
+  let coverStatus = new Uint8Array(0); // per reading of the batch, reused
   const occupations = options.baseOccupations ? new Set(Array.from(options.baseOccupations)) : null;
   const flagCounts: Record<CorrectionFlagName, number> = {
     no_base_cover: 0, base_gap: 0, outside_model_validity: 0, duplicate_time: 0, no_position: 0, base_occupation: 0,
@@ -167,6 +168,9 @@ export function createCorrector(base: BaseSeries, reference: ReferenceFieldEvalu
     // the reference field of the whole batch in one call where the evaluator offers it (same values)
     const batchReference = reference !== null && reference.totalNtInto !== undefined && lat !== null && lon !== null;
     if (batchReference) reference.totalNtInto!(referenceNt, lat, lon, hgt, timeMs, n, defaultHeightM);
+    // the base at every reading, and why where there is none
+    if (coverStatus.length < n) coverStatus = new Uint8Array(n);
+    interp.fill(baseNt, coverStatus, timeMs, n);
     for (let i = 0; i < n; i++) {
       const t = timeMs[i];
       let flags = 0;
@@ -202,10 +206,10 @@ export function createCorrector(base: BaseSeries, reference: ReferenceFieldEvalu
       }
 
       // diurnal
-      const b = interp.at(t);
+      const b = baseNt[i];
       let diurnal = NaN;
       if (b !== b) {
-        flags |= interp.status === CoverStatus.BaseGap ? CorrectionFlag.baseGap : CorrectionFlag.noBaseCover;
+        flags |= coverStatus[i] === CoverStatus.BaseGap ? CorrectionFlag.baseGap : CorrectionFlag.noBaseCover;
       } else if (datumNt !== null) {
         diurnal = b - datumNt;
       } else if (covered) {

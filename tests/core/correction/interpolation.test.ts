@@ -112,3 +112,26 @@ describe("natural cubic spline", () => {
     expect(joint.status).toBe(CoverStatus.BaseGap);
   });
 });
+
+describe("base interpolator, batch form", () => {
+  it("fill gives at()'s values and statuses for every method: inside, on samples, across a too-long gap, before and after the record, NaN", () => {
+    // constructed record: 1 s samples, a 300 s gap (over the 120 s default) after 08:01:40
+    const t0 = Date.UTC(2026, 4, 4, 8);
+    const times: number[] = [];
+    const fields: number[] = [];
+    for (let s = 0; s <= 100; s++) times.push(t0 + s * 1000), fields.push(48_300 + Math.sin(s / 9) * 4);
+    for (let s = 400; s <= 500; s++) times.push(t0 + s * 1000), fields.push(48_310 + Math.cos(s / 7) * 3);
+    const base = prepareBaseSeries(times, fields);
+    const asked = [t0 - 1, t0, t0 + 250, t0 + 1000, t0 + 99_500, t0 + 200_000, t0 + 400_000, t0 + 450_300, t0 + 500_000, t0 + 500_001, NaN, t0 + 3_700];
+    for (const method of ["linear", "spline", "nearest"] as const) {
+      const one = createBaseInterpolator(base, { method });
+      const expected = asked.map((t) => [one.at(t), one.status]);
+      const batch = createBaseInterpolator(base, { method });
+      const out = new Float64Array(asked.length);
+      const status = new Uint8Array(asked.length);
+      batch.fill(out, status, asked, asked.length);
+      expect(asked.map((_, i) => [out[i], status[i]])).toEqual(expected);
+      expect(new Set(status)).toEqual(new Set([CoverStatus.Ok, CoverStatus.NoBaseCover, CoverStatus.BaseGap]));
+    }
+  });
+});
