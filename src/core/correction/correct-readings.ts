@@ -159,6 +159,17 @@ export function createCorrector(base: BaseSeries, reference: ReferenceFieldEvalu
     const lat = rover.latDeg ?? null;
     const lon = rover.lonDeg ?? null;
     const hgt = rover.heightM ?? null;
+    // the previous batch as the loop needs it; this batch becomes the previous one (done here, before
+    // the loop, for the reason given after it)
+    const previousFlags = prevFlags;
+    const previousIndex = prevIndex;
+    const first = offset;
+    if (n > 0) {
+      prevFlags = out.flags;
+      prevIndex = n - 1;
+    }
+    total += n;
+    offset += n;
     // running state in locals, written back after the loop: a double kept in a closure variable is
     // boxed on every store (an allocation per reading in V8)
     let lastTimeMs = prevTimeMs;
@@ -177,15 +188,15 @@ export function createCorrector(base: BaseSeries, reference: ReferenceFieldEvalu
       if (duplicate ? duplicate[i] : t === lastTimeMs) flags |= CorrectionFlag.duplicateTime;
       if (!duplicate && t === lastTimeMs) {
         // mark both members of an adjacent pair (the first may sit in the previous batch)
-        const earlier = i > 0 ? flagsOut : prevFlags!;
-        const k = i > 0 ? i - 1 : prevIndex;
+        const earlier = i > 0 ? flagsOut : previousFlags!;
+        const k = i > 0 ? i - 1 : previousIndex;
         if (!(earlier[k] & CorrectionFlag.duplicateTime)) {
           earlier[k] |= CorrectionFlag.duplicateTime;
           flagCounts.duplicate_time++;
         }
       }
       lastTimeMs = t;
-      if (occupations && occupations.has(offset + i)) flags |= CorrectionFlag.baseOccupation;
+      if (occupations && occupations.has(first + i)) flags |= CorrectionFlag.baseOccupation;
 
       // reference at the reading
       let refNt = NaN;
@@ -236,16 +247,13 @@ export function createCorrector(base: BaseSeries, reference: ReferenceFieldEvalu
         if (flags & CorrectionFlag.baseOccupation) flagCounts.base_occupation++;
       }
     }
+    // Nothing but plain stores after the loop: the loop is compiled while it first runs, before any
+    // code after it has run, and the optimized code bailed out at the first operation there that
+    // had no type feedback (a compare, a call), on every batch.
     prevTimeMs = lastTimeMs;
     correctedCount = correctedSoFar;
     residualCount = residuals;
     heightDefaulted = defaulted;
-    if (n > 0) {
-      prevFlags = out.flags;
-      prevIndex = n - 1;
-    }
-    total += n;
-    offset += n;
     return out;
   }
 
