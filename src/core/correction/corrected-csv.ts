@@ -4,10 +4,10 @@
  * time ISO 8601 UTC with ms; nT to 0.001, degrees to 0.0000001 (~1 cm), height to 0.001 m; empty
  * cell = no value; flags joined with `|`. Pure: the bytes go to a caller's sink.
  */
-import { CsvByteWriter, IsoTimeBytes, ISO_TIME_BYTES, MAX_FIXED_BYTES, putBytes, putFixedAt, type ByteSink } from "../csv";
+import { CsvByteWriter, encodeCell, IsoTimeBytes, ISO_TIME_BYTES, MAX_FIXED_BYTES, putBytes, putFixedAt, type ByteSink } from "../csv";
 import type { LogReadings } from "../logs";
 import type { CorrectionColumns } from "./correct-readings";
-import { createFlagJoiner } from "./flags";
+import { flagNames } from "./flags";
 
 export const CORRECTED_CSV_COLUMNS = [
   "time", "lat", "lon", "height_m", "line", "raw_nT", "base_nT", "diurnal_nT", "corrected_nT", "reference_nT", "residual_nT", "flags",
@@ -20,8 +20,8 @@ const HEIGHT_DECIMALS = 3;
 const COMMA = 44;
 const LF = 10;
 const NO_BYTES = new Uint8Array(0);
-/** A row without its line and flags cells: the time, ten numbers and twelve separators. */
-const MAX_ROW_BYTES = ISO_TIME_BYTES + 10 * MAX_FIXED_BYTES + 12;
+/** A row without its line and flags cells: the time, nine numbers, eleven commas and the line feed. */
+const MAX_ROW_BYTES = ISO_TIME_BYTES + 9 * MAX_FIXED_BYTES + 12;
 
 /** The rover columns the rows show. */
 export type CorrectedCsvRover = Pick<LogReadings, "count" | "timeMs" | "fieldNt" | "latDeg" | "lonDeg" | "heightM" | "line">;
@@ -44,8 +44,8 @@ export async function writeCorrectedCsv(sink: ByteSink, rover: CorrectedCsvRover
 export class CorrectedCsvStream {
   private readonly w: CsvByteWriter;
   private readonly times = new IsoTimeBytes();
-  private readonly joinFlags = createFlagJoiner("|");
-  private readonly flagBytes = new Map<number, Uint8Array>();
+  /** Flag bits → their cell (`a|b`); at most 64 combinations. */
+  private readonly flagCells = new Map<number, Uint8Array>();
 
   constructor(sink: ByteSink) {
     this.w = new CsvByteWriter((bytes) => sink.writeBytes(bytes));
@@ -68,10 +68,10 @@ export class CorrectedCsvStream {
   }
 
   private flagCell(bits: number): Uint8Array {
-    let bytes = this.flagBytes.get(bits);
+    let bytes = this.flagCells.get(bits);
     if (bytes === undefined) {
-      bytes = this.w.cellBytes(this.joinFlags(bits)).slice();
-      this.flagBytes.set(bits, bytes);
+      bytes = encodeCell(flagNames(bits).join("|"));
+      this.flagCells.set(bits, bytes);
     }
     return bytes;
   }

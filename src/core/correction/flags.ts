@@ -37,16 +37,3 @@ export function flagNames(bits: number): CorrectionFlagName[] {
   for (const [bit, name] of NAMES) if (bits & bit) out.push(name);
   return out;
 }
-
-/** Bit sets seen so far → `a|b` strings (there are at most 64 combinations). */
-export function createFlagJoiner(separator = "|"): (bits: number) => string {
-  const cache = new Map<number, string>();
-  return (bits) => {
-    let s = cache.get(bits);
-    if (s === undefined) {
-      s = flagNames(bits).join(separator);
-      cache.set(bits, s);
-    }
-    return s;
-  };
-}

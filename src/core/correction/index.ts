@@ -1,4 +1,4 @@
-export { CorrectionFlag, flagNames, createFlagJoiner, type CorrectionFlagName } from "./flags";
+export { CorrectionFlag, flagNames, type CorrectionFlagName } from "./flags";
 export { prepareBaseSeries, type BaseSeries, type PreparedBaseSeries } from "./base-series";
 export {
   createBaseInterpolator,

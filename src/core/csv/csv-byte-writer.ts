@@ -28,9 +28,9 @@ export interface ByteSink {
 
 /**
  * CSV rows straight into a byte buffer: numbers, ISO times and cells are written as ASCII digits
- * without building strings, so a million-row output makes no garbage. Full buffers go to `sink`
- * (the buffer is reused once the sink is done with it).
- * Numbers: same rounding as createFixedFormatter; NaN writes nothing (an empty cell).
+ * without building strings (putFixedAt, IsoTimeBytes, putBytes into `bytes` / `view` after
+ * `reserve`), so a million-row output makes no garbage. Full buffers go to `sink` (each is reused
+ * once the sink is done with it).
  */
 export class CsvByteWriter {
   private buf: Uint8Array;
@@ -42,24 +42,27 @@ export class CsvByteWriter {
   pos = 0;
   /** Buffers handed to the sink whose promise has not been awaited yet, oldest first. */
   private readonly inFlight: { buf: Uint8Array; done: Promise<void> }[] = [];
-  private readonly times = new IsoTimeBytes();
-  private readonly scratch = new Float64Array(1);
   private readonly textCache = new Map<string, Uint8Array>();
   private lastText = "";
   private lastBytes: Uint8Array = new Uint8Array(0);
 
   /**
    * `sink` receives full buffers in order. A sink that returns a promise may keep the bytes until
-   * it settles: call `handOff()` when `nearlyFull` (double buffering, so writing overlaps
-   * formatting) and `finish()` at the end.
+   * it settles: call `handOff()` when `nearlyFull` (a few buffers may be out at once, so writing
+   * overlaps formatting) and `finish()` at the end.
    */
   constructor(private readonly sink: (bytes: Uint8Array) => void | Promise<void>, private readonly capacity = 1 << 22) {
     this.buf = new Uint8Array(capacity);
     this.bufView = new DataView(this.buf.buffer);
   }
 
-  /** Make room for n more bytes by growing the buffer (never writes, so order stays with handOff). */
-  private room(n: number): void {
+  /**
+   * Room for n more bytes, to be written from `pos` into `bytes` / `view` (with putFixedAt,
+   * IsoTimeBytes, putBytes), after which the caller sets `pos` to the new end: a row written this
+   * way keeps its position in a local variable, much faster than a call per cell. Grows the buffer
+   * when needed (never writes, so the order stays with handOff).
+   */
+  reserve(n: number): void {
     if (this.pos + n > this.buf.length) {
       const bigger = new Uint8Array(Math.max(this.buf.length * 2, this.pos + n));
       bigger.set(this.buf.subarray(0, this.pos));
@@ -70,15 +73,6 @@ export class CsvByteWriter {
   private useBuffer(buf: Uint8Array): void {
     this.buf = buf;
     this.bufView = new DataView(buf.buffer, buf.byteOffset, buf.byteLength);
-  }
-
-  /**
-   * Room for n more bytes, to be written from `pos` into `bytes` / `view` (with putFixedAt,
-   * IsoTimeBytes, putBytes), after which the caller sets `pos` to the new end. A row written this
-   * way keeps its position in a local variable, which is much faster than a call per cell.
-   */
-  reserve(n: number): void {
-    this.room(n);
   }
 
   /** The current buffer (valid until the next reserve or handOff). */
@@ -132,23 +126,16 @@ export class CsvByteWriter {
   }
 
   byte(c: number): void {
-    this.room(1);
+    this.reserve(1);
     this.buf[this.pos++] = c;
   }
 
   /** Text written as is (UTF-8), e.g. a header row. */
   text(text: string): void {
     const bytes = UTF8.encode(text);
-    this.room(bytes.length);
+    this.reserve(bytes.length);
     this.buf.set(bytes, this.pos);
     this.pos += bytes.length;
-  }
-
-  /** A text cell, CSV-quoted when needed; encodings of repeated texts are cached. */
-  cell(text: string): void {
-    const bytes = this.cellBytes(text);
-    this.room(bytes.length);
-    this.pos = putBytes(this.buf, this.pos, bytes);
   }
 
   /** The UTF-8 bytes of a text cell, CSV-quoted when needed (cached: a survey line repeats for thousands of rows). */
@@ -156,26 +143,18 @@ export class CsvByteWriter {
     if (text === this.lastText) return this.lastBytes;
     let bytes = this.textCache.get(text);
     if (bytes === undefined) {
-      bytes = UTF8.encode(csvCell(text));
+      bytes = encodeCell(text);
       if (this.textCache.size < 100_000) this.textCache.set(text, bytes);
     }
     this.lastText = text;
     this.lastBytes = bytes;
     return bytes;
   }
+}
 
-  /** Fixed-point number with `decimals` digits after the point (0–9); NaN writes nothing. */
-  fixed(x: number, decimals: number): void {
-    this.room(MAX_FIXED_BYTES);
-    this.scratch[0] = x;
-    this.pos = putFixedAt(this.bufView, this.pos, this.scratch, 0, decimals);
-  }
-
-  /** UTC ms as `yyyy-mm-ddThh:mm:ss.sssZ` (years 0–9999). */
-  isoTime(timeMs: number): void {
-    this.room(ISO_TIME_BYTES);
-    this.pos = this.times.put(this.bufView, this.pos, timeMs);
-  }
+/** The UTF-8 bytes of one CSV cell, quoted when it needs to be. */
+export function encodeCell(text: string): Uint8Array {
+  return UTF8.encode(csvCell(text));
 }
 
 /**
