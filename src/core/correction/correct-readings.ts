@@ -92,6 +92,32 @@ function countOf(rover: RoverReadings): number {
   return rover.count ?? rover.timeMs.length;
 }
 
+/**
+ * The reference field of readings 0…n−1 into out (the evaluator's batch form when it has one, the
+ * same values one by one otherwise): NaN without a position or outside the model's validity; a
+ * reading without height uses defaultHeightM.
+ */
+function referenceInto(
+  reference: ReferenceFieldEvaluator,
+  out: Float64Array,
+  lat: ArrayLike<number>,
+  lon: ArrayLike<number>,
+  height: ArrayLike<number> | null,
+  timeMs: ArrayLike<number>,
+  n: number,
+  defaultHeightM: number,
+): void {
+  if (reference.totalNtInto) {
+    reference.totalNtInto(out, lat, lon, height, timeMs, n, defaultHeightM);
+    return;
+  }
+  for (let i = 0; i < n; i++) {
+    const h = height ? height[i] : NaN;
+    const positioned = lat[i] === lat[i] && lon[i] === lon[i];
+    out[i] = positioned && reference.covers(timeMs[i]) ? reference.totalNt(lat[i], lon[i], h === h ? h : defaultHeightM, timeMs[i]) : NaN;
+  }
+}
+
 /** Correction columns for n readings (zeros until written). */
 export function emptyColumns(n: number): CorrectionColumns {
   return {
@@ -176,10 +202,8 @@ export function createCorrector(base: BaseSeries, reference: ReferenceFieldEvalu
     let correctedSoFar = correctedCount;
     let residuals = residualCount;
     let defaulted = heightDefaulted;
-    // the reference field of the whole batch in one call where the evaluator offers it (same values)
-    const batchReference = reference !== null && reference.totalNtInto !== undefined && lat !== null && lon !== null;
-    if (batchReference) reference.totalNtInto!(referenceNt, lat, lon, hgt, timeMs, n, defaultHeightM);
-    // the base at every reading, and why where there is none
+    // the reference field and the base of the whole batch, each in one call
+    if (reference && lat && lon) referenceInto(reference, referenceNt, lat, lon, hgt, timeMs, n, defaultHeightM);
     if (coverStatus.length < n) coverStatus = new Uint8Array(n);
     interp.fill(baseNt, coverStatus, timeMs, n);
     for (let i = 0; i < n; i++) {
@@ -207,12 +231,9 @@ export function createCorrector(base: BaseSeries, reference: ReferenceFieldEvalu
         if (la !== la || lo !== lo) flags |= CorrectionFlag.noPosition;
         else if (!covered) flags |= CorrectionFlag.outsideModelValidity;
         else {
-          let h = hgt ? hgt[i] : NaN;
-          if (h !== h) {
-            h = defaultHeightM;
-            defaulted++;
-          }
-          refNt = batchReference ? referenceNt[i] : reference.totalNt(la, lo, h, t);
+          const h = hgt ? hgt[i] : NaN;
+          if (h !== h) defaulted++; // referenceInto used defaultHeightM
+          refNt = referenceNt[i];
         }
       }
 
@@ -230,7 +251,6 @@ export function createCorrector(base: BaseSeries, reference: ReferenceFieldEvalu
       }
       const corrected = fieldNt[i] - instrumentOffsetNt - diurnal;
       const residual = corrected - refNt;
-      baseNt[i] = b;
       diurnalNt[i] = diurnal;
       correctedNt[i] = corrected;
       referenceNt[i] = refNt;
