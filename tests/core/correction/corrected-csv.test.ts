@@ -25,6 +25,20 @@ async function text(rover: CorrectedCsvRover, result: CorrectionColumns, kind: "
   return new TextDecoder().decode(Buffer.concat(pieces));
 }
 
+/** n rover readings 50 ms apart from 05:00 UTC, field by `fieldNt`; lat/lon, height and line names when asked. */
+function roverOf(n: number, fieldNt: (i: number) => number, o: { position?: boolean; height?: boolean; readingsPerLine?: number } = {}): CorrectedCsvRover {
+  const t0 = Date.UTC(2026, 4, 4, 5);
+  return {
+    count: n,
+    timeMs: Float64Array.from({ length: n }, (_, i) => t0 + i * 50),
+    fieldNt: Float64Array.from({ length: n }, (_, i) => fieldNt(i)),
+    latDeg: o.position ? Float64Array.from({ length: n }, (_, i) => 52 + i * 1e-7) : null,
+    lonDeg: o.position ? Float64Array.from({ length: n }, () => -3.5) : null,
+    heightM: o.height ? Float64Array.from({ length: n }, (_, i) => 200 + (i % 100) * 0.01) : null,
+    line: o.readingsPerLine ? Array.from({ length: n }, (_, i) => `L${Math.floor(i / o.readingsPerLine!)}`) : null,
+  };
+}
+
 describe("writeCorrectedCsv", () => {
   it("writes the header and one row per reading, with empty cells, quoting and flag names", async () => {
     // constructed example (not published): base 48 310.0 nT at 08:00 and 48 322.0 nT at 10:00, a
@@ -52,12 +66,7 @@ describe("writeCorrectedCsv", () => {
   it("gives the same bytes to a sink that keeps each buffer until its promise settles and to one that copies at once", async () => {
     const n = 300_000; // several 4 MiB buffers
     const t0 = Date.UTC(2026, 4, 4, 5);
-    const rover: CorrectedCsvRover = {
-      count: n,
-      timeMs: Float64Array.from({ length: n }, (_, i) => t0 + i * 50),
-      fieldNt: Float64Array.from({ length: n }, (_, i) => 48_900 + Math.sin(i / 1000) * 30),
-      latDeg: null, lonDeg: null, heightM: null, line: null,
-    };
+    const rover = roverOf(n, (i) => 48_900 + Math.sin(i / 1000) * 30);
     const result = columns(n, (i) => [48_900 + i * 1e-4, i * 1e-4, 48_900, NaN, NaN, i % 1000 === 0 ? CorrectionFlag.duplicateTime : 0]);
     const sync = await text(rover, result, "sync");
     expect(await text(rover, result, "async")).toBe(sync);
@@ -66,18 +75,10 @@ describe("writeCorrectedCsv", () => {
     expect(rows[n]).toBe(`${new Date(t0 + (n - 1) * 50).toISOString()},,,,,${(48_900 + Math.sin((n - 1) / 1000) * 30).toFixed(3)},${(48_900 + (n - 1) * 1e-4).toFixed(3)},${((n - 1) * 1e-4).toFixed(3)},48900.000,,,`);
     expect(rows[1001].endsWith(",duplicate_time")).toBe(true);
   });
+
   it("writes the same bytes a batch at a time as all at once, and refuses rows past the rover readings", async () => {
     const n = 70_000;
-    const t0 = Date.UTC(2026, 4, 4, 5);
-    const rover: CorrectedCsvRover = {
-      count: n,
-      timeMs: Float64Array.from({ length: n }, (_, i) => t0 + i * 50),
-      fieldNt: Float64Array.from({ length: n }, (_, i) => 48_900 + Math.cos(i / 700) * 25),
-      latDeg: Float64Array.from({ length: n }, (_, i) => 52 + i * 1e-7),
-      lonDeg: Float64Array.from({ length: n }, () => -3.5),
-      heightM: null,
-      line: Array.from({ length: n }, (_, i) => `L${Math.floor(i / 9000)}`),
-    };
+    const rover = roverOf(n, (i) => 48_900 + Math.cos(i / 700) * 25, { position: true, readingsPerLine: 9000 });
     const whole = columns(n, (i) => [48_890 + i * 1e-4, i * 1e-4 - 3, 48_901, 49_100 + i * 1e-5, -199, i % 777 === 0 ? CorrectionFlag.baseGap : 0]);
     const once = await text(rover, whole, "async");
     const pieces: Uint8Array[] = [];
@@ -93,18 +94,10 @@ describe("writeCorrectedCsv", () => {
     expect(new TextDecoder().decode(Buffer.concat(pieces))).toBe(once);
     await expect(new CorrectedCsvStream({ writeBytes: () => {} }).write(rover, columns(2, () => [1, 1, 1, 1, 1, 0]), n - 1)).rejects.toThrow(RangeError);
   });
+
   it("with several buffers out at once, a sink that reads each buffer only when its write settles, out of order, gets the same bytes", async () => {
     const n = 200_000; // ~6 buffers of 4 MiB: several in flight
-    const t0 = Date.UTC(2026, 4, 4, 5);
-    const rover: CorrectedCsvRover = {
-      count: n,
-      timeMs: Float64Array.from({ length: n }, (_, i) => t0 + i * 50),
-      fieldNt: Float64Array.from({ length: n }, (_, i) => 48_900 + Math.sin(i / 900) * 30),
-      latDeg: Float64Array.from({ length: n }, (_, i) => 52 + i * 1e-7),
-      lonDeg: Float64Array.from({ length: n }, () => -3.5),
-      heightM: Float64Array.from({ length: n }, (_, i) => 200 + (i % 100) * 0.01),
-      line: Array.from({ length: n }, (_, i) => `L${Math.floor(i / 5000)}`),
-    };
+    const rover = roverOf(n, (i) => 48_900 + Math.sin(i / 900) * 30, { position: true, height: true, readingsPerLine: 5000 });
     const result = columns(n, (i) => [48_890 + i * 1e-4, i * 1e-4, 48_901, 49_100, -199, 0]);
     const expected = await text(rover, result, "sync");
     const pieces: Uint8Array[] = [];
@@ -130,7 +123,7 @@ describe("writeCorrectedCsv", () => {
 
   it("a failed write is thrown once every other write has ended", async () => {
     const n = 150_000;
-    const rover: CorrectedCsvRover = { count: n, timeMs: new Float64Array(n).fill(Date.UTC(2026, 4, 4)), fieldNt: new Float64Array(n).fill(48_900), latDeg: null, lonDeg: null, heightM: null, line: null };
+    const rover = roverOf(n, () => 48_900);
     let seq = 0;
     let active = 0;
     const failing = () => {
