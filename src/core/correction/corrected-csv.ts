@@ -4,7 +4,7 @@
  * time ISO 8601 UTC with ms; nT to 0.001, degrees to 0.0000001 (~1 cm), height to 0.001 m; empty
  * cell = no value; flags joined with `|`. Pure: the bytes go to a caller's sink.
  */
-import { CsvByteWriter, encodeCell, IsoTimeBytes, ISO_TIME_BYTES, MAX_FIXED_BYTES, putBytes, putFixedAt, type ByteSink } from "../csv";
+import { CsvByteWriter, encodeCell, IsoTimeBytes, ISO_TIME_BYTES, MAX_FIXED_BYTES, putBytes, putFixed3At, putFixed7At, type ByteSink } from "../csv";
 import type { LogReadings } from "../logs";
 import type { CorrectionColumns } from "./correct-readings";
 import { flagNames } from "./flags";
@@ -14,9 +14,6 @@ export const CORRECTED_CSV_COLUMNS = [
 ] as const;
 export type CorrectedCsvColumn = (typeof CORRECTED_CSV_COLUMNS)[number];
 
-const NT_DECIMALS = 3;
-const DEG_DECIMALS = 7;
-const HEIGHT_DECIMALS = 3;
 const COMMA = 44;
 const LF = 10;
 const NO_BYTES = new Uint8Array(0);
@@ -95,25 +92,25 @@ export class CorrectedCsvStream {
       const v = w.view;
       let p = times.put(v, w.pos, timeMs[r]);
       b[p++] = COMMA;
-      if (latDeg) p = putFixedAt(v, p, latDeg, r, DEG_DECIMALS);
+      if (latDeg) p = putFixed7At(v, p, latDeg, r);
       b[p++] = COMMA;
-      if (lonDeg) p = putFixedAt(v, p, lonDeg, r, DEG_DECIMALS);
+      if (lonDeg) p = putFixed7At(v, p, lonDeg, r);
       b[p++] = COMMA;
-      if (heightM) p = putFixedAt(v, p, heightM, r, HEIGHT_DECIMALS);
+      if (heightM) p = putFixed3At(v, p, heightM, r);
       b[p++] = COMMA;
       p = putBytes(b, p, lineCell);
       b[p++] = COMMA;
-      p = putFixedAt(v, p, fieldNt, r, NT_DECIMALS);
+      p = putFixed3At(v, p, fieldNt, r);
       b[p++] = COMMA;
-      p = putFixedAt(v, p, baseNt, i, NT_DECIMALS);
+      p = putFixed3At(v, p, baseNt, i);
       b[p++] = COMMA;
-      p = putFixedAt(v, p, diurnalNt, i, NT_DECIMALS);
+      p = putFixed3At(v, p, diurnalNt, i);
       b[p++] = COMMA;
-      p = putFixedAt(v, p, correctedNt, i, NT_DECIMALS);
+      p = putFixed3At(v, p, correctedNt, i);
       b[p++] = COMMA;
-      p = putFixedAt(v, p, referenceNt, i, NT_DECIMALS);
+      p = putFixed3At(v, p, referenceNt, i);
       b[p++] = COMMA;
-      p = putFixedAt(v, p, residualNt, i, NT_DECIMALS);
+      p = putFixed3At(v, p, residualNt, i);
       b[p++] = COMMA;
       p = putBytes(b, p, flagCell);
       b[p++] = LF;

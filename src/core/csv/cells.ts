@@ -1,6 +1,6 @@
 /** Text of CSV cells: fixed-point numbers and RFC 4180 quoting. Pure. */
 /** 10^0 … 10^9, exact. */
-export const POW10 = [1, 10, 100, 1000, 10_000, 100_000, 1_000_000, 10_000_000, 100_000_000, 1_000_000_000];
+const POW10 = [1, 10, 100, 1000, 10_000, 100_000, 1_000_000, 10_000_000, 100_000_000, 1_000_000_000];
 
 /**
  * `x` with exactly `decimals` digits (0–9) after the point, "" for NaN. Rounds x·10^d half away
