@@ -17,6 +17,8 @@ import { readLogFile } from "../src/cli/log-file";
 import { generateBenchData } from "./generate";
 
 const BENCH_DIR = import.meta.dirname;
+// as the command line and bench/child.ts run: without the source-map support tsx turns on
+process.setSourceMapsEnabled(false);
 
 function median(values: number[]): number {
   const a = [...values].sort((x, y) => x - y);
