@@ -167,7 +167,10 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
   // Minute cache for the fixed layout: logs run in time order, so consecutive rows share
   // `yyyy-mm-ddThh:mm`; the zone offset is looked up once per minute (kept only when the offset is the
   // same at both ends of that minute).
-  const cachedPrefix = new Uint8Array(16);
+  // (its 16 bytes as four little-endian words, compared with the row's through a view of the row's bytes)
+  const cachedWords = new Int32Array(4);
+  let viewBytes: Uint8Array | null = null;
+  let view: DataView<ArrayBufferLike> = new DataView(new ArrayBuffer(0));
   let cacheValid = false;
   let cachedZulu = false;
   let cachedMinuteUtcMs = NaN; // UTC of hh:mm:00 before clock offset and time basis
@@ -211,13 +214,12 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
     // the minute `yyyy-mm-ddThh:mm`: the one of the previous row (already checked), or read now
     let same = cacheValid && zulu === cachedZulu;
     if (same) {
-      const p = cachedPrefix;
-      for (let i = 15; i >= 0; i--) {
-        if (bytes[at + i] !== p[i]) {
-          same = false;
-          break;
-        }
+      if (bytes !== viewBytes) {
+        viewBytes = bytes;
+        view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
       }
+      const w = cachedWords;
+      same = view.getInt32(at + 12, true) === w[3] && view.getInt32(at + 8, true) === w[2] && view.getInt32(at + 4, true) === w[1] && view.getInt32(at, true) === w[0];
     }
     let minuteUtcMs: number;
     if (same) {
@@ -233,7 +235,10 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
       const packed = daysFromCivil(y, mo, d) * MS_PER_DAY + (h * 60 + mi) * 60_000;
       minuteUtcMs = zulu ? packed : localToUtc(packed);
       cacheValid = zulu || localToUtc(packed + 59_999) - minuteUtcMs === 59_999;
-      for (let i = 0; i < 16; i++) cachedPrefix[i] = bytes[at + i];
+      for (let k = 0; k < 4; k++) {
+        const i = at + 4 * k;
+        cachedWords[k] = bytes[i] | (bytes[i + 1] << 8) | (bytes[i + 2] << 16) | (bytes[i + 3] << 24);
+      }
       cachedZulu = zulu;
       cachedMinuteUtcMs = minuteUtcMs;
       if (!cacheValid) {
