@@ -166,8 +166,8 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
 
   // Minute cache for the fixed layout: logs run in time order, so consecutive rows share
   // `yyyy-mm-ddThh:mm`; the zone offset is looked up once per minute (kept only when the offset is the
-  // same at both ends of that minute).
-  // (its 16 bytes as four little-endian words, compared with the row's through a view of the row's bytes)
+  // same at both ends of that minute). The minute's 16 bytes are kept as four little-endian words,
+  // read and compared through a view of the row's bytes.
   const cachedWords = new Int32Array(4);
   let viewBytes: Uint8Array | null = null;
   let view: DataView<ArrayBufferLike> = new DataView(new ArrayBuffer(0));
@@ -212,12 +212,12 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
     }
     const secondMs = (s1 * 10 + s0) * 1000 + ms;
     // the minute `yyyy-mm-ddThh:mm`: the one of the previous row (already checked), or read now
+    if (bytes !== viewBytes) {
+      viewBytes = bytes;
+      view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+    }
     let same = cacheValid && zulu === cachedZulu;
     if (same) {
-      if (bytes !== viewBytes) {
-        viewBytes = bytes;
-        view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
-      }
       const w = cachedWords;
       same = view.getInt32(at + 12, true) === w[3] && view.getInt32(at + 8, true) === w[2] && view.getInt32(at + 4, true) === w[1] && view.getInt32(at, true) === w[0];
     }
@@ -235,10 +235,7 @@ export function createTimestampReader(options: TimeReadOptions = {}): TimestampR
       const packed = daysFromCivil(y, mo, d) * MS_PER_DAY + (h * 60 + mi) * 60_000;
       minuteUtcMs = zulu ? packed : localToUtc(packed);
       cacheValid = zulu || localToUtc(packed + 59_999) - minuteUtcMs === 59_999;
-      for (let k = 0; k < 4; k++) {
-        const i = at + 4 * k;
-        cachedWords[k] = bytes[i] | (bytes[i + 1] << 8) | (bytes[i + 2] << 16) | (bytes[i + 3] << 24);
-      }
+      for (let k = 0; k < 4; k++) cachedWords[k] = view.getInt32(at + 4 * k, true);
       cachedZulu = zulu;
       cachedMinuteUtcMs = minuteUtcMs;
       if (!cacheValid) {
